@@ -1,0 +1,94 @@
+# deltak - build, test, demo. `make help` lists the targets.
+#
+# Dependencies come from Debian and are found with pkg-config;
+# .ci/install-deps installs any that are missing (as root) or prints the
+# one apt-get line to run.
+
+VERSION := 0.1.0
+CC      ?= gcc
+PKGS    := gsl cairo pangocairo yaml-0.1 json-c
+BUILD   := build
+DEPCHECK := $(BUILD)/.deps-ok
+
+PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
+PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null)
+
+WARN     := -Wall -Wextra -Werror -Wshadow -Wstrict-prototypes -Wformat=2
+CFLAGS   ?= -O2 -g
+ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) -Iinclude -Isrc \
+             $(PKG_CFLAGS) -DDK_VERSION='"$(VERSION)"' \
+             -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
+LDLIBS_ALL = $(PKG_LIBS) -lm
+
+LIB_SRC := $(wildcard src/*.c)
+CLI_SRC := $(wildcard src/cli/*.c)
+LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
+CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
+TEST_SRC := $(wildcard tests/test_*.c)
+TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
+
+.PHONY: all deps check unit cli-tests asan demo bench plots clean help
+
+all: $(BUILD)/deltak
+
+help:
+	@echo "make            build build/deltak and build/libdeltak.a"
+	@echo "make check      build and run every test (also under ASan+UBSan)"
+	@echo "make demo       run the demo scenarios on the shipped database"
+	@echo "make bench      measure speed (benchmarks never run in check)"
+	@echo "make plots      regenerate the figures in plots/"
+
+$(DEPCHECK): .ci/install-deps
+	@sh .ci/install-deps
+	@mkdir -p $(BUILD) && touch $@
+
+deps: $(DEPCHECK)
+
+$(BUILD)/%.o: %.c | $(DEPCHECK)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -c $< -o $@
+
+$(BUILD)/libdeltak.a: $(LIB_OBJ)
+	@rm -f $@
+	ar rcs $@ $^
+
+$(BUILD)/deltak: $(CLI_OBJ) $(BUILD)/libdeltak.a
+	$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL)
+
+$(BUILD)/tests/%: tests/%.c $(BUILD)/libdeltak.a tests/testutil.h
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -DDK_TEST_DATA='"$(abspath tests/data)"' \
+	    -DDK_REFERENCE_DIR='"$(abspath ../shared/reference)"' \
+	    -o $@ $< $(BUILD)/libdeltak.a $(LDLIBS_ALL) \
+	    $(shell pkg-config --libs cmocka)
+
+unit: $(TEST_BIN)
+	@sh tests/run-unit.sh $(TEST_BIN)
+
+cli-tests: $(BUILD)/deltak
+	@sh tests/cli/run.sh $(BUILD)/deltak
+
+# The unit tests once more, built with AddressSanitizer and UBSan.
+asan: | $(DEPCHECK)
+	@$(MAKE) --no-print-directory BUILD=$(BUILD)/asan \
+	    CFLAGS="-O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=all" \
+	    DEPCHECK=$(DEPCHECK) unit
+
+# Every test: unit tests, command-line tests, unit tests under sanitizers.
+# Ends with one line "checks: N passed, M failed".
+check: $(BUILD)/deltak $(TEST_BIN)
+	@sh tests/check.sh "$(MAKE)" $(BUILD)
+
+demo: $(BUILD)/deltak
+	@sh examples/demo.sh $(BUILD)/deltak
+
+bench: $(BUILD)/deltak
+	@sh tests/bench/run.sh $(BUILD)/deltak
+
+plots: $(BUILD)/deltak
+	@sh examples/plots.sh $(BUILD)/deltak plots
+
+clean:
+	rm -rf $(BUILD)
+
+-include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d)

@@ -1,0 +1,155 @@
+/*
+ * crystal.h - a crystal of the database and the database itself.
+ *
+ * A crystal is read from one YAML file (schema: crystals/README.md) by
+ * the only module that calls libyaml (src/crystal_load.c). All strings
+ * and arrays of a crystal live in one arena freed by dk_crystal_free().
+ */
+#ifndef DK_CRYSTAL_H
+#define DK_CRYSTAL_H
+
+#include "deltak/dispersion.h"
+#include "deltak/status.h"
+
+typedef enum dk_optical_class {
+    DK_ISOTROPIC,
+    DK_UNIAXIAL,
+    DK_BIAXIAL
+} dk_optical_class;
+
+typedef enum dk_poling {
+    DK_POLING_NONE,
+    DK_POLING_PERIODIC,      /* ferroelectric domain inversion */
+    DK_POLING_ORIENTATION    /* orientation-patterned growth */
+} dk_poling;
+
+/* A caution that applies below or above a temperature. */
+typedef struct dk_caution_range {
+    int below;            /* 1: applies below temp_c; 0: above */
+    double temp_c;
+    const char *text;
+} dk_caution_range;
+
+/* Thermal expansion of one axis: L(T) = L_ref [1 + α ΔT + β ΔT²]. */
+typedef struct dk_expansion_axis {
+    int present;
+    double alpha_per_c;
+    double beta_per_c2;
+} dk_expansion_axis;
+
+#define DK_D_MAX 18   /* independent d_il elements a file may give */
+
+typedef struct dk_crystal {
+    const char *id;                 /* canonical name, e.g. "MgO:LiNbO3" */
+    const char *name;               /* long name */
+    const char *path;               /* the file it came from */
+    int naliases;
+    const char **aliases;
+    dk_optical_class optical_class;
+    const char *point_group;
+    const char *frame;
+    double transparency_um[2];
+    const char *transparency_source;
+    dk_poling poling;
+    int polar_axis;                 /* 0, 1, 2 = X, Y, Z; -1 if none */
+    int grating_axis;               /* 0, 1, 2 = X, Y, Z; -1 if none */
+    int ncautions;
+    const char **cautions;
+    int ncaution_ranges;
+    dk_caution_range *caution_ranges;
+    int has_damage;
+    double damage_gw_per_cm2;
+    const char *damage_pulse;
+    const char *damage_source;
+
+    int nsets;
+    dk_dispersion_set *sets;        /* sets[0] is the default */
+
+    int has_expansion;
+    const char *expansion_citation;
+    double expansion_reference_c;
+    dk_expansion_axis expansion[3]; /* X, Y, Z */
+
+    int has_nonlinear;
+    const char *nl_citation;
+    const char *nl_convention;
+    double nl_wavelength_um;
+    int nl_from_memory;
+    int nd;                         /* elements as given in the file */
+    char d_names[DK_D_MAX][4];      /* e.g. "d33" */
+    double d_values[DK_D_MAX];      /* pm/V */
+
+    void *arena;                    /* owns everything above */
+} dk_crystal;
+
+/* The loaded database: every crystal that loaded, and why others did not. */
+typedef struct dk_db {
+    int ncrystals;
+    dk_crystal **crystals;          /* sorted by id */
+    int nerrors;
+    char **errors;                  /* one message per file that failed */
+} dk_db;
+
+/*
+ * dk_crystal_load:
+ * @path: a crystal YAML file
+ * @out: on success a new crystal, to be freed with dk_crystal_free()
+ *
+ * Returns: DK_OK; DK_EIO if the file cannot be read; DK_EPARSE with
+ * "cannot load 'PATH': line L, column C: ..." for any schema error
+ * (missing field, wrong type, unknown key or formula, duplicate key,
+ * non-finite number). On error *out is unchanged.
+ */
+dk_status dk_crystal_load(const char *path, dk_crystal **out, dk_error *err);
+
+/* Free @c and everything it owns; NULL does nothing. */
+void dk_crystal_free(dk_crystal *c);
+
+/*
+ * dk_db_load:
+ * @dir: a folder of *.yaml crystal files
+ * @out: the database, to be freed with dk_db_free()
+ *
+ * A file that fails to load is recorded in (*out)->errors and skipped;
+ * two files claiming the same name or alias are an error of the later one.
+ *
+ * Returns: DK_OK (even with skipped files); DK_EIO if @dir cannot be read;
+ * DK_ENOMEM.
+ */
+dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
+
+/* Free @db and its crystals; NULL does nothing. */
+void dk_db_free(dk_db *db);
+
+/*
+ * dk_db_find:
+ * @name: an id or alias, matched case-insensitively
+ *
+ * Returns: the crystal, or NULL.
+ */
+const dk_crystal *dk_db_find(const dk_db *db, const char *name);
+
+/*
+ * dk_crystal_find_set:
+ * @name: a set name, matched case-insensitively; NULL for the default
+ *
+ * Returns: the set or NULL.
+ */
+const dk_dispersion_set *dk_crystal_find_set(const dk_crystal *c,
+                                             const char *name);
+
+/* The labels of the principal axes of @c's class: "oe", "XYZ" or "n". */
+const char *dk_crystal_axis_labels(const dk_crystal *c);
+
+/* "isotropic", "uniaxial" or "biaxial". */
+const char *dk_optical_class_str(dk_optical_class k);
+
+/*
+ * dk_crystal_expansion_factor:
+ * @axis: 0, 1, 2 = X, Y, Z
+ * Returns: L(T)/L(T_ref) along @axis; 1 when the file gives none.
+ */
+double dk_crystal_expansion_factor(const dk_crystal *c, int axis,
+                                   double temp_c);
+
+#endif /* DK_CRYSTAL_H */

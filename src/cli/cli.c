@@ -1,0 +1,196 @@
+/*
+ * cli.c - messages, warnings, database loading and buffered output for
+ * the command files (see cli.h).
+ */
+#include <math.h>
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+#include "deltak/material.h"
+
+#define MAX_WARNINGS 64
+
+static char *warnings[MAX_WARNINGS];
+static int nwarnings;
+
+int
+cli_error(const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    fputs("error: ", stderr);
+    vfprintf(stderr, fmt, ap);
+    fputc('\n', stderr);
+    va_end(ap);
+    return CLI_FAIL;
+}
+
+void
+cli_print_usage(FILE *f, const char *const usage[])
+{
+    for (int i = 0; usage[i]; i++)
+        fprintf(f, "%s%s\n", i == 0 ? "usage: " : "", usage[i]);
+}
+
+int
+cli_usage_error(const char *const usage[], const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    fputs("error: ", stderr);
+    vfprintf(stderr, fmt, ap);
+    fputc('\n', stderr);
+    va_end(ap);
+    cli_print_usage(stderr, usage);
+    return CLI_USAGE;
+}
+
+void
+cli_warn(const char *fmt, ...)
+{
+    char buf[DK_ERROR_MSG_MAX];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(buf, sizeof buf, fmt, ap);
+    va_end(ap);
+    for (int i = 0; i < nwarnings; i++)
+        if (strcmp(warnings[i], buf) == 0)
+            return;
+    if (nwarnings < MAX_WARNINGS) {
+        char *copy = strdup(buf);
+        if (copy)
+            warnings[nwarnings++] = copy;
+    }
+}
+
+void
+cli_warn_index(const dk_dispersion_set *set, unsigned flags, double lambda_um,
+               double temp_c)
+{
+    char buf[1024];
+    if (!dk_warning_text(set, flags, lambda_um, temp_c, buf, sizeof buf))
+        return;
+    for (char *line = strtok(buf, "\n"); line; line = strtok(NULL, "\n"))
+        cli_warn("%s", line);
+}
+
+void
+cli_warnings_to_json(json_object *obj)
+{
+    if (!nwarnings)
+        return;
+    json_object *arr = json_object_new_array();
+    for (int i = 0; i < nwarnings; i++)
+        json_object_array_add(arr, json_object_new_string(warnings[i]));
+    json_object_object_add(obj, "warnings", arr);
+}
+
+void
+cli_warnings_flush(void)
+{
+    for (int i = 0; i < nwarnings; i++) {
+        fprintf(stderr, "warning: %s\n", warnings[i]);
+        free(warnings[i]);
+    }
+    nwarnings = 0;
+}
+
+int
+cli_load_db(dk_db **db)
+{
+    const char *dir = getenv("DELTAK_CRYSTALS");
+    if (!dir || !*dir)
+        dir = DK_CRYSTAL_DIR;
+    dk_error err = {0};
+    if (dk_db_load(dir, db, &err))
+        return cli_error("%s", err.msg);
+    for (int i = 0; i < (*db)->nerrors; i++)
+        cli_warn("%s (file skipped)", (*db)->errors[i]);
+    return 0;
+}
+
+const dk_crystal *
+cli_find_crystal(const dk_db *db, const char *name)
+{
+    if (!name) {
+        cli_error("no crystal given: use --crystal NAME (see 'deltak "
+                  "crystals' for the list)");
+        return NULL;
+    }
+    const dk_crystal *c = dk_db_find(db, name);
+    if (c)
+        return c;
+    fprintf(stderr, "error: unknown crystal '%s'; known crystals:", name);
+    for (int i = 0; i < db->ncrystals; i++)
+        fprintf(stderr, "%s %s", i ? "," : "", db->crystals[i]->id);
+    fprintf(stderr, "\n(aliases such as BBO or PPLN work too; see 'deltak "
+                    "crystals')\n");
+    return NULL;
+}
+
+const dk_dispersion_set *
+cli_find_set(const dk_crystal *c, const char *name)
+{
+    const dk_dispersion_set *s = dk_crystal_find_set(c, name);
+    if (s)
+        return s;
+    fprintf(stderr, "error: %s has no data set '%s'; its sets are:", c->id,
+            name);
+    for (int i = 0; i < c->nsets; i++)
+        fprintf(stderr, "%s %s", i ? "," : "", c->sets[i].name);
+    fputc('\n', stderr);
+    return NULL;
+}
+
+int
+cli_out_open(cli_out *o)
+{
+    o->buf = NULL;
+    o->len = 0;
+    o->f = open_memstream(&o->buf, &o->len);
+    return o->f ? 0 : cli_error("out of memory");
+}
+
+int
+cli_out_commit(cli_out *o)
+{
+    if (fclose(o->f) != 0) {
+        free(o->buf);
+        return cli_error("out of memory");
+    }
+    size_t w = fwrite(o->buf, 1, o->len, stdout);
+    free(o->buf);
+    if (w != o->len || fflush(stdout) != 0)
+        return cli_error("cannot write the output");
+    return 0;
+}
+
+void
+cli_out_discard(cli_out *o)
+{
+    fclose(o->f);
+    free(o->buf);
+}
+
+void
+cli_out_json(cli_out *o, json_object *obj)
+{
+    fputs(json_object_to_json_string_ext(obj, JSON_C_TO_STRING_PRETTY |
+                                                  JSON_C_TO_STRING_SPACED |
+                                                  JSON_C_TO_STRING_NOSLASHESCAPE),
+          o->f);
+    fputc('\n', o->f);
+    json_object_put(obj);
+}
+
+json_object *
+cli_json_num(double v)
+{
+    if (!isfinite(v))
+        return NULL; /* JSON null; callers avoid non-finite values */
+    char buf[32];
+    snprintf(buf, sizeof buf, "%.12g", v);
+    return json_object_new_double_s(v, buf);
+}

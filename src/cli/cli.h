@@ -1,0 +1,90 @@
+/*
+ * cli.h - helpers shared by the command files: messages, the database,
+ * warnings, and output that appears only once a command has succeeded.
+ *
+ * Exit codes: 0 success, 1 the request failed (message on stderr),
+ * 2 bad usage (message and usage on stderr).
+ */
+#ifndef DK_CLI_H
+#define DK_CLI_H
+
+#include <json-c/json.h>
+#include <stdio.h>
+
+#include "deltak/crystal.h"
+#include "deltak/dispersion.h"
+
+#define CLI_FAIL 1
+#define CLI_USAGE 2
+
+/* Print "error: ..." on stderr; returns CLI_FAIL. */
+int cli_error(const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 1, 2)))
+#endif
+    ;
+
+/* Print "error: ...", then the usage lines; returns CLI_USAGE. */
+int cli_usage_error(const char *const usage[], const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
+
+/* Print the usage lines on @f. */
+void cli_print_usage(FILE *f, const char *const usage[]);
+
+/* Record a warning (duplicates are dropped). Printed by cli_finish(). */
+void cli_warn(const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 1, 2)))
+#endif
+    ;
+
+/* Add the recorded warnings to @obj as "warnings": [...] (if any). */
+void cli_warnings_to_json(json_object *obj);
+
+/* Print the recorded warnings on stderr as "warning: ..." and forget them. */
+void cli_warnings_flush(void);
+
+/* Record the range warnings of one index evaluation. */
+void cli_warn_index(const dk_dispersion_set *set, unsigned flags,
+                    double lambda_um, double temp_c);
+
+/*
+ * Load the crystal database from $DELTAK_CRYSTALS or the built-in folder.
+ * Files that fail to load become warnings. Returns 0, or CLI_FAIL after
+ * printing the error.
+ */
+int cli_load_db(dk_db **db);
+
+/* Find @name or print an error listing the known names; NULL if absent. */
+const dk_crystal *cli_find_crystal(const dk_db *db, const char *name);
+
+/* Find a data set by name (NULL: the default) or print the known sets. */
+const dk_dispersion_set *cli_find_set(const dk_crystal *c, const char *name);
+
+/*
+ * An output buffer: commands print into it and only a successful command
+ * writes it to stdout, so a failure never leaves half an answer.
+ */
+typedef struct cli_out {
+    FILE *f;
+    char *buf;
+    size_t len;
+} cli_out;
+
+int cli_out_open(cli_out *o);
+/* Write the buffer to stdout and release it. Returns 0 or CLI_FAIL. */
+int cli_out_commit(cli_out *o);
+/* Release without writing. */
+void cli_out_discard(cli_out *o);
+
+/* Serialise @obj (pretty) into @o, then release @obj. */
+void cli_out_json(cli_out *o, json_object *obj);
+
+/* A double for JSON, rounded to 12 significant digits. */
+json_object *cli_json_num(double v);
+
+
+#endif /* DK_CLI_H */

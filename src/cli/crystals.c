@@ -1,0 +1,276 @@
+/*
+ * crystals.c - `deltak crystals [NAME]`: list the database, or show one
+ * crystal with every data set, range and source.
+ */
+#include <getopt.h>
+#include <string.h>
+
+#include "cli.h"
+#include "commands.h"
+
+static const char *const crystals_usage[] = {
+    "deltak crystals [--json] [<name>]",
+    "",
+    "  <name>    a crystal id or alias (case-insensitive): show it in full",
+    "  --json    machine-readable output",
+    NULL};
+
+static const char *
+poling_str(dk_poling p)
+{
+    switch (p) {
+    case DK_POLING_PERIODIC: return "periodic poling";
+    case DK_POLING_ORIENTATION: return "orientation patterning";
+    case DK_POLING_NONE: break;
+    }
+    return "none";
+}
+
+static const char *
+axis_name(int i)
+{
+    static const char *const n[] = {"X", "Y", "Z"};
+    return i >= 0 && i < 3 ? n[i] : "-";
+}
+
+static void
+print_list(FILE *f, const dk_db *db)
+{
+    fprintf(f, "%-14s %-10s %-22s %-14s %s\n", "crystal", "class",
+            "data sets", "transparency", "aliases");
+    for (int i = 0; i < db->ncrystals; i++) {
+        const dk_crystal *c = db->crystals[i];
+        char sets[256] = "", range[32], aliases[256] = "";
+        for (int j = 0; j < c->nsets; j++) {
+            strncat(sets, c->sets[j].name, sizeof sets - strlen(sets) - 2);
+            if (j + 1 < c->nsets)
+                strncat(sets, ",", sizeof sets - strlen(sets) - 1);
+        }
+        for (int j = 0; j < c->naliases; j++) {
+            strncat(aliases, c->aliases[j],
+                    sizeof aliases - strlen(aliases) - 3);
+            if (j + 1 < c->naliases)
+                strncat(aliases, ", ", sizeof aliases - strlen(aliases) - 1);
+        }
+        snprintf(range, sizeof range, "%g-%g um", c->transparency_um[0],
+                 c->transparency_um[1]);
+        fprintf(f, "%-14s %-10s %-22s %-14s %s\n", c->id,
+                dk_optical_class_str(c->optical_class), sets, range, aliases);
+    }
+    fprintf(f, "\n%d crystals. 'deltak crystals NAME' shows one in full.\n",
+            db->ncrystals);
+}
+
+static void
+print_set(FILE *f, const dk_dispersion_set *s, int is_default)
+{
+    fprintf(f, "\n  data set %s%s%s\n", s->name,
+            is_default ? " (default)" : "",
+            s->from_memory ? "  [typed from memory, not yet checked]" : "");
+    fprintf(f, "    source       %s\n", s->citation);
+    if (s->doi)
+        fprintf(f, "    doi          %s\n", s->doi);
+    fprintf(f, "    fitted over  %g-%g um", s->wavelength_range_um[0],
+            s->wavelength_range_um[1]);
+    if (s->temp_form != DK_TEMP_NONE)
+        fprintf(f, ", %g-%g C", s->temperature_range_c[0],
+                s->temperature_range_c[1]);
+    else
+        fprintf(f, ", at %g C", s->reference_temperature_c);
+    fputc('\n', f);
+    for (int i = 0; i < s->naxes; i++) {
+        fprintf(f, "    axis %c       %s\n", s->axes[i].label,
+                s->axes[i].formula);
+        if (s->axes[i].citation)
+            fprintf(f, "                 (from %s)\n", s->axes[i].citation);
+    }
+    if (s->has_thermo)
+        fprintf(f, "    dn/dT        %s, %g-%g C\n                 (%s)\n",
+                s->thermo.formula, s->thermo.temperature_range_c[0],
+                s->thermo.temperature_range_c[1], s->thermo.citation);
+    if (s->note)
+        fprintf(f, "    note         %s\n", s->note);
+}
+
+static void
+print_one(FILE *f, const dk_crystal *c)
+{
+    fprintf(f, "%s - %s\n", c->id, c->name);
+    fprintf(f, "  file         %s\n", c->path);
+    fprintf(f, "  aliases     ");
+    for (int i = 0; i < c->naliases; i++)
+        fprintf(f, " %s", c->aliases[i]);
+    fprintf(f, "\n  class        %s, point group %s\n",
+            dk_optical_class_str(c->optical_class), c->point_group);
+    fprintf(f, "  frame        %s\n", c->frame);
+    fprintf(f, "  transparent  %g-%g um (%s)\n", c->transparency_um[0],
+            c->transparency_um[1], c->transparency_source);
+    fprintf(f, "  QPM          %s", poling_str(c->poling));
+    if (c->poling != DK_POLING_NONE)
+        fprintf(f, "; polar axis %s, grating along %s",
+                axis_name(c->polar_axis), axis_name(c->grating_axis));
+    fputc('\n', f);
+    for (int i = 0; i < c->nsets; i++)
+        print_set(f, &c->sets[i], i == 0);
+    if (c->has_expansion) {
+        fprintf(f, "\n  thermal expansion (reference %g C; %s)\n",
+                c->expansion_reference_c, c->expansion_citation);
+        for (int i = 0; i < 3; i++)
+            if (c->expansion[i].present)
+                fprintf(f, "    %s  alpha %.4g /C, beta %.4g /C^2\n",
+                        axis_name(i), c->expansion[i].alpha_per_c,
+                        c->expansion[i].beta_per_c2);
+    }
+    if (c->has_nonlinear) {
+        fprintf(f, "\n  nonlinear coefficients at %g um%s (%s)\n",
+                c->nl_wavelength_um,
+                c->nl_from_memory ? " [from memory]" : "", c->nl_citation);
+        fprintf(f, "    convention: %s\n   ", c->nl_convention);
+        for (int i = 0; i < c->nd; i++)
+            fprintf(f, " %s = %g pm/V%s", c->d_names[i], c->d_values[i],
+                    i + 1 < c->nd ? "," : "\n");
+    }
+    if (c->ncautions || c->ncaution_ranges || c->has_damage) {
+        fprintf(f, "\n  cautions\n");
+        for (int i = 0; i < c->ncautions; i++)
+            fprintf(f, "    - %s\n", c->cautions[i]);
+        for (int i = 0; i < c->ncaution_ranges; i++)
+            fprintf(f, "    - %s %g C: %s\n",
+                    c->caution_ranges[i].below ? "below" : "above",
+                    c->caution_ranges[i].temp_c, c->caution_ranges[i].text);
+        if (c->has_damage)
+            fprintf(f, "    - damage threshold about %g GW/cm^2 (%s; %s)\n",
+                    c->damage_gw_per_cm2, c->damage_pulse, c->damage_source);
+    }
+}
+
+static json_object *
+json_range(const double r[2])
+{
+    json_object *a = json_object_new_array();
+    json_object_array_add(a, cli_json_num(r[0]));
+    json_object_array_add(a, cli_json_num(r[1]));
+    return a;
+}
+
+static json_object *
+crystal_json(const dk_crystal *c, int full)
+{
+    json_object *o = json_object_new_object();
+    json_object_object_add(o, "crystal", json_object_new_string(c->id));
+    json_object_object_add(o, "name", json_object_new_string(c->name));
+    json_object *al = json_object_new_array();
+    for (int i = 0; i < c->naliases; i++)
+        json_object_array_add(al, json_object_new_string(c->aliases[i]));
+    json_object_object_add(o, "aliases", al);
+    json_object_object_add(
+        o, "class",
+        json_object_new_string(dk_optical_class_str(c->optical_class)));
+    json_object_object_add(o, "point_group",
+                           json_object_new_string(c->point_group));
+    json_object_object_add(o, "transparency_um",
+                           json_range(c->transparency_um));
+    json_object_object_add(o, "poling",
+                           json_object_new_string(poling_str(c->poling)));
+    json_object *sets = json_object_new_array();
+    for (int i = 0; i < c->nsets; i++) {
+        const dk_dispersion_set *s = &c->sets[i];
+        json_object *so = json_object_new_object();
+        json_object_object_add(so, "dispersion",
+                               json_object_new_string(s->name));
+        if (full) {
+            json_object_object_add(so, "citation",
+                                   json_object_new_string(s->citation));
+            if (s->doi)
+                json_object_object_add(so, "doi",
+                                       json_object_new_string(s->doi));
+            json_object_object_add(so, "wavelength_range_um",
+                                   json_range(s->wavelength_range_um));
+            json_object_object_add(so, "temperature_range_C",
+                                   json_range(s->temperature_range_c));
+            json_object_object_add(so, "temperature_dependent",
+                                   json_object_new_boolean(
+                                       dk_set_has_temperature(s)));
+            json_object_object_add(so, "from_memory",
+                                   json_object_new_boolean(s->from_memory));
+            char axes[4] = {0};
+            for (int j = 0; j < s->naxes; j++)
+                axes[j] = s->axes[j].label;
+            json_object_object_add(so, "axes", json_object_new_string(axes));
+        }
+        json_object_array_add(sets, so);
+    }
+    json_object_object_add(o, "sets", sets);
+    if (full && c->has_nonlinear) {
+        json_object *d = json_object_new_object();
+        for (int i = 0; i < c->nd; i++)
+            json_object_object_add(d, c->d_names[i],
+                                   cli_json_num(c->d_values[i]));
+        json_object_object_add(o, "d_pm_per_V", d);
+    }
+    if (full) {
+        json_object *ca = json_object_new_array();
+        for (int i = 0; i < c->ncautions; i++)
+            json_object_array_add(ca, json_object_new_string(c->cautions[i]));
+        json_object_object_add(o, "cautions", ca);
+    }
+    return o;
+}
+
+int
+cmd_crystals(int argc, char **argv)
+{
+    static const struct option opts[] = {{"json", no_argument, NULL, 'j'},
+                                         {"help", no_argument, NULL, 'h'},
+                                         {NULL, 0, NULL, 0}};
+    int json = 0, ch;
+    optind = 1;
+    opterr = 0;
+    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+        if (ch == 'j')
+            json = 1;
+        else if (ch == 'h') {
+            cli_print_usage(stdout, crystals_usage);
+            return 0;
+        } else
+            return cli_usage_error(crystals_usage, "unknown option '%s'",
+                                   argv[optind - 1]);
+    }
+    if (argc - optind > 1)
+        return cli_usage_error(crystals_usage, "give at most one crystal "
+                                               "name");
+    dk_db *db = NULL;
+    if (cli_load_db(&db))
+        return CLI_FAIL;
+    const char *name = optind < argc ? argv[optind] : NULL;
+    const dk_crystal *c = NULL;
+    if (name && !(c = cli_find_crystal(db, name))) {
+        dk_db_free(db);
+        return CLI_FAIL;
+    }
+    cli_out out;
+    if (cli_out_open(&out)) {
+        dk_db_free(db);
+        return CLI_FAIL;
+    }
+    if (json) {
+        json_object *o;
+        if (c) {
+            o = crystal_json(c, 1);
+        } else {
+            o = json_object_new_object();
+            json_object *arr = json_object_new_array();
+            for (int i = 0; i < db->ncrystals; i++)
+                json_object_array_add(arr, crystal_json(db->crystals[i], 0));
+            json_object_object_add(o, "crystals", arr);
+        }
+        cli_warnings_to_json(o);
+        cli_out_json(&out, o);
+    } else if (c) {
+        print_one(out.f, c);
+    } else {
+        print_list(out.f, db);
+    }
+    dk_db_free(db);
+    return cli_out_commit(&out);
+}

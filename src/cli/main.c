@@ -1,0 +1,74 @@
+/*
+ * main.c - the deltak program: find the subcommand in the table and run it.
+ */
+#include <gsl/gsl_errno.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "cli.h"
+#include "commands.h"
+
+struct cli_cmd {
+    const char *name;
+    int (*fn)(int argc, char **argv);
+    const char *summary;
+};
+
+/* Sorted by name. */
+static const struct cli_cmd commands[] = {
+    {"crystals", cmd_crystals,
+     "list the crystal database, or show one crystal's data and sources"},
+    {"index", cmd_index,
+     "refractive index, group index, GVD and TOD of each axis"},
+};
+
+#define NCOMMANDS (sizeof commands / sizeof commands[0])
+
+static void
+print_help(FILE *f)
+{
+    fprintf(f, "deltak %s - phase-matching designer for nonlinear frequency "
+               "conversion\n\n"
+               "usage: deltak <command> [options]\n"
+               "       deltak <command> --help\n"
+               "       deltak --version\n\ncommands:\n",
+            DK_VERSION);
+    for (size_t i = 0; i < NCOMMANDS; i++)
+        fprintf(f, "  %-10s %s\n", commands[i].name, commands[i].summary);
+    fprintf(f, "\nWavelengths carry a unit: %s.\n"
+               "Temperatures are in C (a K suffix is accepted).\n"
+               "\nLaser safety: these are Class 3B/4 systems and mid-infrared "
+               "beams are invisible;\nlocal laser-safety rules and your laser "
+               "safety officer take precedence.\n",
+            "1064nm, 1.064um, 9398cm-1, 281.8THz");
+}
+
+int
+main(int argc, char **argv)
+{
+    /* GSL's default handler aborts; errors come back as codes instead. */
+    gsl_set_error_handler_off();
+    if (argc < 2) {
+        print_help(stderr);
+        return CLI_USAGE;
+    }
+    const char *name = argv[1];
+    if (strcmp(name, "--version") == 0 || strcmp(name, "version") == 0) {
+        printf("deltak %s\n", DK_VERSION);
+        return 0;
+    }
+    if (strcmp(name, "--help") == 0 || strcmp(name, "-h") == 0 ||
+        strcmp(name, "help") == 0) {
+        print_help(stdout);
+        return 0;
+    }
+    for (size_t i = 0; i < NCOMMANDS; i++)
+        if (strcmp(commands[i].name, name) == 0) {
+            int rc = commands[i].fn(argc - 1, argv + 1);
+            cli_warnings_flush();
+            return rc;
+        }
+    fprintf(stderr, "error: unknown command '%s'\n\n", name);
+    print_help(stderr);
+    return CLI_USAGE;
+}

@@ -1,0 +1,66 @@
+/*
+ * material.c - index of a crystal axis with the database's range rules
+ * (DESIGN.md §6): outside the transparency range is an error, outside a
+ * data set's fitted ranges a warning.
+ */
+#include <stdio.h>
+
+#include "deltak/material.h"
+
+dk_status
+dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
+                  char axis, double lambda_um, double temp_c,
+                  dk_index_value *out, dk_error *err)
+{
+    if (!(lambda_um >= c->transparency_um[0] &&
+          lambda_um <= c->transparency_um[1]))
+        return dk_error_set(err, DK_ERANGE,
+                            "%.6g um is outside the transparency range "
+                            "%.6g-%.6g um of %s",
+                            lambda_um, c->transparency_um[0],
+                            c->transparency_um[1], c->id);
+    const dk_axis_formula *ax = dk_set_find_axis(set, axis);
+    if (!ax)
+        return dk_error_set(err, DK_ENOTFOUND,
+                            "data set '%s' of %s has no '%c' axis; pick "
+                            "another set with --dispersion",
+                            set->name, c->id, axis);
+    return dk_index_eval(set, ax, lambda_um, temp_c, out, err);
+}
+
+int
+dk_warning_text(const dk_dispersion_set *set, unsigned flags,
+                double lambda_um, double temp_c, char *buf, size_t n)
+{
+    int count = 0;
+    size_t used = 0;
+    buf[0] = '\0';
+    if (flags & DK_WARN_LAMBDA_RANGE) {
+        used += snprintf(buf + used, used < n ? n - used : 0,
+                         "%s%.6g um is outside the fitted range %.6g-%.6g um "
+                         "of data set '%s'",
+                         count ? "\n" : "", lambda_um,
+                         set->wavelength_range_um[0],
+                         set->wavelength_range_um[1], set->name);
+        count++;
+    }
+    if (flags & DK_WARN_TEMP_RANGE) {
+        const double *r = set->has_thermo && set->temp_form == DK_TEMP_NONE
+                              ? set->thermo.temperature_range_c
+                              : set->temperature_range_c;
+        used += snprintf(buf + used, used < n ? n - used : 0,
+                         "%s%.6g C is outside the fitted range %.6g-%.6g C "
+                         "of data set '%s'",
+                         count ? "\n" : "", temp_c, r[0], r[1], set->name);
+        count++;
+    }
+    if (flags & DK_WARN_NO_TEMP) {
+        used += snprintf(buf + used, used < n ? n - used : 0,
+                         "%sdata set '%s' has no temperature dependence; "
+                         "evaluated at its %.6g C",
+                         count ? "\n" : "", set->name,
+                         set->reference_temperature_c);
+        count++;
+    }
+    return count;
+}

@@ -1,0 +1,19 @@
+#!/bin/sh
+# make check: unit tests, command-line tests, then the unit tests again
+# under AddressSanitizer + UndefinedBehaviorSanitizer. Prints one closing
+# line "checks: N passed, M failed".
+MAKE_CMD=$1; BUILD=$2
+log=$BUILD/check.log
+: > "$log"
+status=0
+$MAKE_CMD --no-print-directory unit >>"$log" 2>&1 || status=1
+$MAKE_CMD --no-print-directory cli-tests >>"$log" 2>&1 || status=1
+$MAKE_CMD --no-print-directory asan >>"$log" 2>&1 || status=1
+grep -E '^(unit|cli): [0-9]+ passed' "$log" > "$BUILD/check.sum"
+grep -E 'FAILED|^not ok|error:|Error|runtime error|AddressSanitizer' "$log" | head -40
+pass=$(awk '{s+=$2} END{print s+0}' "$BUILD/check.sum")
+fail=$(awk '{s+=$4} END{print s+0}' "$BUILD/check.sum")
+sed 's/^/  /' "$BUILD/check.sum"
+if [ "$status" -ne 0 ] && [ "$fail" -eq 0 ]; then fail=1; fi
+echo "checks: $pass passed, $fail failed"
+[ "$status" -eq 0 ] && [ "$fail" -eq 0 ]

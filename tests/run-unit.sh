@@ -1,0 +1,16 @@
+#!/bin/sh
+# Run cmocka test programs; print "unit: N passed, M failed" and exit
+# non-zero if any test failed or a program crashed.
+pass=0; fail=0
+for t in "$@"; do
+    out=$("$t" 2>&1); rc=$?
+    printf '%s\n' "$out"
+    p=$(printf '%s\n' "$out" | sed -n 's/^\[  PASSED  \] \([0-9]*\) test.*/\1/p' | tail -1)
+    f=$(printf '%s\n' "$out" | sed -n 's/^\[  FAILED  \] \([0-9]*\) test.*/\1/p' | tail -1)
+    pass=$((pass + ${p:-0})); fail=$((fail + ${f:-0}))
+    if [ "$rc" -ne 0 ] && [ -z "$f" ]; then
+        echo "error: $t exited with status $rc"; fail=$((fail + 1))
+    fi
+done
+echo "unit: $pass passed, $fail failed"
+[ "$fail" -eq 0 ]
