@@ -9,6 +9,8 @@ CC      ?= gcc
 PKGS    := gsl cairo pangocairo yaml-0.1 json-c
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
+# `make V=1` shows the full compiler lines.
+Q := $(if $(V),,@)
 
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
 PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null)
@@ -46,18 +48,22 @@ deps: $(DEPCHECK)
 
 $(BUILD)/%.o: %.c | $(DEPCHECK)
 	@mkdir -p $(dir $@)
-	$(CC) $(ALL_CFLAGS) -c $< -o $@
+	@echo "  CC      $<"
+	$(Q)$(CC) $(ALL_CFLAGS) -c $< -o $@
 
 $(BUILD)/libdeltak.a: $(LIB_OBJ)
 	@rm -f $@
-	ar rcs $@ $^
+	@echo "  AR      $@"
+	$(Q)ar rcs $@ $^
 
 $(BUILD)/deltak: $(CLI_OBJ) $(BUILD)/libdeltak.a
-	$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL)
+	@echo "  LINK    $@"
+	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL)
 
 $(BUILD)/tests/%: tests/%.c $(BUILD)/libdeltak.a tests/testutil.h
 	@mkdir -p $(dir $@)
-	$(CC) $(ALL_CFLAGS) -DDK_TEST_DATA='"$(abspath tests/data)"' \
+	@echo "  TEST    $@"
+	$(Q)$(CC) $(ALL_CFLAGS) -DDK_TEST_DATA='"$(abspath tests/data)"' \
 	    -DDK_REFERENCE_DIR='"$(abspath ../shared/reference)"' \
 	    -o $@ $< $(BUILD)/libdeltak.a $(LDLIBS_ALL) \
 	    $(shell pkg-config --libs cmocka)
@@ -82,7 +88,10 @@ check: $(BUILD)/deltak $(TEST_BIN)
 demo: $(BUILD)/deltak
 	@sh examples/demo.sh $(BUILD)/deltak
 
-bench: $(BUILD)/deltak
+$(BUILD)/bench_index: tests/bench/bench_index.c $(BUILD)/libdeltak.a
+	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $< $(BUILD)/libdeltak.a $(LDLIBS_ALL)
+
+bench: $(BUILD)/deltak $(BUILD)/bench_index
 	@sh tests/bench/run.sh $(BUILD)/deltak
 
 plots: $(BUILD)/deltak

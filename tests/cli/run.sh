@@ -1,0 +1,81 @@
+#!/bin/sh
+# Command-line tests: run build/deltak as a user would and check exit
+# codes, output and error messages. Prints "cli: N passed, M failed".
+DK=${1:-build/deltak}
+pass=0; fail=0
+tmp=$(mktemp -d); trap 'rm -rf "$tmp"' EXIT
+
+# expect NAME EXIT-CODE PATTERN -- ARGS...: run, check the code and that
+# stdout+stderr match the (grep -E) pattern.
+expect() {
+    name=$1; code=$2; pat=$3; shift 4
+    "$DK" "$@" >"$tmp/out" 2>"$tmp/err"; rc=$?
+    if [ "$rc" -eq "$code" ] && cat "$tmp/out" "$tmp/err" | grep -Eq -- "$pat"; then
+        pass=$((pass + 1))
+    else
+        fail=$((fail + 1))
+        echo "not ok: $name (exit $rc, wanted $code; pattern '$pat')"
+        sed 's/^/    /' "$tmp/out" "$tmp/err" | head -20
+    fi
+}
+
+# no_stdout NAME ARGS...: a failing command writes nothing on stdout.
+no_stdout() {
+    name=$1; shift
+    "$DK" "$@" >"$tmp/out" 2>/dev/null
+    if [ ! -s "$tmp/out" ]; then pass=$((pass + 1)); else
+        fail=$((fail + 1)); echo "not ok: $name wrote to stdout on failure"; fi
+}
+
+# json_has NAME KEYS -- ARGS...: stdout parses as JSON and has the keys.
+json_has() {
+    name=$1; keys=$2; shift 3
+    "$DK" "$@" >"$tmp/out" 2>/dev/null
+    if python3 -c "
+import json,sys
+d=json.load(open('$tmp/out'))
+for k in '$keys'.split():
+    cur=d
+    for part in k.split('.'):
+        cur=cur[int(part)] if isinstance(cur,list) else cur[part]
+" 2>"$tmp/err"; then pass=$((pass + 1)); else
+        fail=$((fail + 1)); echo "not ok: $name"; sed 's/^/    /' "$tmp/err" | tail -3; fi
+}
+
+expect version 0 '^deltak [0-9]+\.[0-9]+\.[0-9]+$' -- --version
+expect help 0 'commands:' -- --help
+expect unknown-command 2 "unknown command 'frobnicate'" -- frobnicate
+expect no-command 2 'usage: deltak' --
+expect crystals-list 0 'MgO:LiNbO3' -- crystals
+expect crystals-one 0 'Gayer2008' -- crystals mgo:ln
+expect crystals-alias-ci 0 'KTiOPO4' -- crystals ppktp
+expect crystals-unknown 1 "unknown crystal 'unobtainium'" -- crystals unobtainium
+expect index-table 0 'group index' -- index --crystal MgO:LN --wavelength 1064nm --temp 40
+expect index-bare-number 2 'has no unit.*1064nm' -- index --crystal MgO:LN --wavelength 1064
+expect index-bad-unit 2 "unknown wavelength unit 'parsec'" -- index --crystal MgO:LN --wavelength 3parsec
+expect index-opaque 1 'outside the transparency range' -- index --crystal MgO:LN --wavelength 8um
+expect index-fit-range 0 'outside the fitted range' -- index --crystal MgO:LN --wavelength 4.5um
+expect index-bad-set 1 "no data set 'nobody1999'" -- index --crystal MgO:LN --wavelength 1um --dispersion nobody1999
+expect index-no-crystal 2 '--crystal is required' -- index --wavelength 1um
+expect index-bad-temp 2 "cannot read temperature" -- index --crystal MgO:LN --wavelength 1um --temp hot
+expect index-kelvin 0 '40 C' -- index --crystal MgO:LN --wavelength 1um --temp 313.15K
+expect index-bad-option 2 'unknown or incomplete option' -- index --crystal MgO:LN --wavelength 1um --frobnicate
+expect index-csv 0 '^crystal,dispersion,axis,wavelength_um' -- index --crystal MgO:LN --wavelength 1064nm --csv
+expect index-all-sets 0 'spread between data sets' -- index --crystal MgO:LN --wavelength 1064nm --all-sets
+expect index-wavenumber 0 '9398.50 cm-1' -- index --crystal MgO:LN --wavelength 9398.496cm-1
+no_stdout index-fail-quiet index --crystal MgO:LN --wavelength 8um --json
+json_has index-json "crystal dispersion wavelength_um temperature_C axes.0.axis axes.0.n axes.0.group_index axes.0.gvd_fs2_per_mm axes.0.tod_fs3_per_mm" -- index --crystal MgO:LN --wavelength 1064nm --temp 40 --json
+json_has index-json-all "sets.1.axes.0.n spread.0.n_spread" -- index --crystal MgO:LN --wavelength 1064nm --all-sets --json
+json_has index-json-warnings "warnings.0" -- index --crystal MgO:LN --wavelength 4.5um --json
+json_has crystals-json "crystals.0.crystal crystals.0.sets" -- crystals --json
+
+# A broken crystal file is reported with file, line and column and skipped.
+mkdir -p "$tmp/db"
+cp crystals/mgo-linbo3.yaml "$tmp/db/"
+printf 'id: Broken\nname: [unclosed\n' > "$tmp/db/broken.yaml"
+DELTAK_CRYSTALS="$tmp/db" "$DK" crystals >"$tmp/out" 2>"$tmp/err"
+if [ $? -eq 0 ] && grep -Eq "broken.yaml': line [0-9]*, column" "$tmp/err" && grep -q MgO "$tmp/out"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: broken-file-skipped"; cat "$tmp/err"; fi
+
+echo "cli: $pass passed, $fail failed"
+[ "$fail" -eq 0 ]
