@@ -214,6 +214,86 @@ transparency_and_ranges(void **state)
                      DK_ENOTFOUND);
 }
 
+/* Group index and GVD against independent values. */
+static void
+group_quantities_published(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *crystal, *set;
+        char axis;
+        double lam, ng, gvd, gvd_tol;
+        const char *source;
+    } cases[] = {
+        /* Debian python3-meep 1.25.0, meep.materials.LiNbO3 (Zelmon et al.
+         * 1997), central differences with h = 1e-3 um, computed for this
+         * test: n_g to ~1e-6, GVD to ~0.05 fs2/mm. */
+        {"LiNbO3", "Zelmon1997", 'o', 0.8, 2.358523, 430.01, 0.1, "meep"},
+        {"LiNbO3", "Zelmon1997", 'e', 0.8, 2.264221, 368.25, 0.1, "meep"},
+        {"LiNbO3", "Zelmon1997", 'o', 1.55, 2.263675, 112.19, 0.1, "meep"},
+        {"LiNbO3", "Zelmon1997", 'e', 1.55, 2.182319, 99.49, 0.1, "meep"},
+        /* BBO o-wave GVD at 800 nm, about 75 fs2/mm as quoted throughout
+         * the ultrafast literature (from memory); n_g not checked here. */
+        {"BBO", "Tamosauskas2018", 'o', 0.8, 0, 75.0, 2.0, "from memory"},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        const dk_crystal *c = dk_db_find(db, cases[i].crystal);
+        assert_non_null(c);
+        const dk_dispersion_set *s = dk_crystal_find_set(c, cases[i].set);
+        assert_non_null(s);
+        dk_index_value v;
+        assert_int_equal(dk_material_index(c, s, cases[i].axis, cases[i].lam,
+                                           s->reference_temperature_c, &v,
+                                           NULL),
+                         DK_OK);
+        if (cases[i].ng > 0)
+            assert_within(dk_group_index(cases[i].lam, v.n, v.dn_dl),
+                          cases[i].ng, 0, 3e-6);
+        assert_within(dk_gvd_fs2_per_mm(cases[i].lam, v.d2n_dl2),
+                      cases[i].gvd, 0, cases[i].gvd_tol);
+    }
+}
+
+/* dn/dT against values published or cross-checked in
+ * ../shared/reference/crystal-data-notes.md. */
+static void
+thermo_optic_published(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *crystal, *set;
+        char axis;
+        double lam, temp, dndt, tol;
+    } cases[] = {
+        /* Kato & Takaoka, Appl. Opt. 41, 5040 (2002), dn_z/dT at 1.064 um
+         * = 1.44e-5 /C with n4 = -0.1897; Emanueli & Arie, Appl. Opt. 42,
+         * 6661 (2003) give 1.48e-5 (crystal-data-notes §3). */
+        {"KTP", "KatoTakaoka2002", 'Z', 1.064, 25, 1.44e-5, 0.05e-5},
+        {"KTP", "Fradkin1999", 'Z', 1.064, 25, 1.48e-5, 0.1e-5},
+        /* Eimerl et al., J. Appl. Phys. 62, 1968 (1987): dn_o/dT =
+         * -16.6e-6, dn_e/dT = -9.3e-6 /C (crystal-data-notes §7). */
+        {"BBO", "Eimerl1987", 'o', 0.8, 40, -16.6e-6, 0.05e-6},
+        {"BBO", "Eimerl1987", 'e', 0.8, 40, -9.3e-6, 0.05e-6},
+        /* Skauli et al., J. Appl. Phys. 94, 6447 (2003): dn/dT of GaAs is
+         * positive, about +2e-4 /K at 2-8 um (crystal-data-notes §5). */
+        {"GaAs", "Skauli2003", 'n', 4.0, 25, 2.0e-4, 0.3e-4},
+        /* Gayer et al. 2008: dn_e/dT of MgO:LN near 3e-4 /K at 1064 nm
+         * (crystal-data-notes §1; approximate). */
+        {"MgO:LN", "Gayer2008", 'e', 1.064, 40, 2.9e-4, 0.4e-4},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        const dk_crystal *c = dk_db_find(db, cases[i].crystal);
+        assert_non_null(c);
+        const dk_dispersion_set *s = dk_crystal_find_set(c, cases[i].set);
+        assert_non_null(s);
+        dk_index_value v;
+        assert_int_equal(dk_material_index(c, s, cases[i].axis, cases[i].lam,
+                                           cases[i].temp, &v, NULL),
+                         DK_OK);
+        assert_within(v.dn_dt, cases[i].dndt, 0, cases[i].tol);
+    }
+}
+
 int
 main(void)
 {
@@ -221,6 +301,8 @@ main(void)
         cmocka_unit_test(term_kinds_by_hand),
         cmocka_unit_test(derivatives_against_gsl_deriv),
         cmocka_unit_test(gvd_units),
+        cmocka_unit_test(group_quantities_published),
+        cmocka_unit_test(thermo_optic_published),
         cmocka_unit_test(transparency_and_ranges),
     };
     return cmocka_run_group_tests_name("dispersion", tests, setup, teardown);

@@ -1,0 +1,280 @@
+/*
+ * qpm.c - collinear quasi-phase matching (formulas and references in
+ * deltak/qpm.h).
+ *
+ * Solvers: the period is explicit, Λ = m / (n_p/λp − n_s/λs − n_i/λi).
+ * Temperature and wavelengths are roots of Δk, found by scanning and Brent
+ * refinement (deltak/roots.h) so that both branches of a turning tuning
+ * curve are reported. The wavelength scan runs over the signal's share of
+ * the pump frequency, x = ν_s/ν_p in (0, 1), where Δk is smooth.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "deltak/material.h"
+#include "deltak/qpm.h"
+#include "deltak/roots.h"
+
+#define TEMP_SCAN 400      /* grid intervals over the oven range */
+#define FREQ_SCAN 2000     /* grid intervals over the signal share */
+#define TEMP_TOL_C 1e-7
+#define FREQ_TOL 1e-12
+
+/* The axis label a polarisation letter means in this crystal. */
+static int
+pol_label(const dk_crystal *c, char letter, char *label)
+{
+    char l = (char)(letter >= 'A' && letter <= 'Z' ? letter + 32 : letter);
+    const char *axes = "xyz";
+    switch (c->optical_class) {
+    case DK_ISOTROPIC:
+        *label = 'n';
+        return 1;
+    case DK_UNIAXIAL:
+        if (l == 'e' || l == 'z')
+            *label = 'e';
+        else if (l == 'o' || l == 'x' || l == 'y')
+            *label = 'o';
+        else
+            return 0;
+        return 1;
+    case DK_BIAXIAL:
+        if (!strchr(axes, l) || l - 'x' == c->grating_axis)
+            return 0;
+        *label = (char)(l - 32);
+        return 1;
+    }
+    return 0;
+}
+
+dk_status
+dk_qpm_init(dk_qpm *q, const dk_crystal *c, const dk_dispersion_set *set,
+            const char *pol, int order, double duty, double written_temp_c,
+            dk_error *err)
+{
+    memset(q, 0, sizeof *q);
+    if (c->poling == DK_POLING_NONE)
+        return dk_error_set(err, DK_EINVAL,
+                            "%s cannot be periodically poled or orientation-"
+                            "patterned; use birefringent phase matching "
+                            "('deltak angle') or a poled crystal such as "
+                            "MgO:LN, PPKTP or OP-GaAs",
+                            c->id);
+    if (order < 1 || order > 99)
+        return dk_error_set(err, DK_EINVAL,
+                            "QPM order %d must be between 1 and 99", order);
+    if (!(duty > 0 && duty < 1))
+        return dk_error_set(err, DK_EINVAL,
+                            "duty cycle %g must lie strictly between 0 and 1",
+                            duty);
+    if (!isfinite(written_temp_c))
+        return dk_error_set(err, DK_EINVAL, "bad writing temperature");
+    q->crystal = c;
+    q->set = set;
+    q->order = order;
+    q->duty = duty;
+    q->written_temp_c = written_temp_c;
+    char polar = (char)("xyz"[c->polar_axis < 0 ? 2 : c->polar_axis]);
+    const char *p = pol ? pol : (char[]){polar, polar, polar, 0};
+    if (strlen(p) != 3)
+        return dk_error_set(err, DK_EINVAL,
+                            "polarisation '%s' must have three letters: "
+                            "signal, idler, pump (e.g. zzz or eee)",
+                            p);
+    for (int i = 0; i < 3; i++) {
+        if (!pol_label(c, p[i], &q->pol[i]))
+            return dk_error_set(err, DK_EINVAL,
+                                "polarisation letter '%c' in '%s' does not "
+                                "fit %s (%s; beam along %c): use %s",
+                                p[i], p, c->id,
+                                dk_optical_class_str(c->optical_class),
+                                "XYZ"[c->grating_axis],
+                                c->optical_class == DK_UNIAXIAL
+                                    ? "o or e (z = e)"
+                                    : "x, y or z, not the beam axis");
+        if (!dk_set_find_axis(set, q->pol[i]))
+            return dk_error_set(err, DK_ENOTFOUND,
+                                "data set '%s' of %s has no '%c' axis; pick "
+                                "another with --dispersion",
+                                set->name, c->id, q->pol[i]);
+    }
+    return DK_OK;
+}
+
+/* n of one wave, recording range warnings in @q. */
+static dk_status
+wave_n(dk_qpm *q, char axis, double lam, double t, double *n, dk_error *err)
+{
+    dk_index_value v;
+    dk_status s = dk_material_index(q->crystal, q->set, axis, lam, t, &v,
+                                    err);
+    if (s)
+        return s;
+    if (v.warnings & ~q->warnings) {
+        if (v.warnings & DK_WARN_LAMBDA_RANGE)
+            q->warn_lambda_um = lam;
+        q->warn_temp_c = t;
+    }
+    q->warnings |= v.warnings;
+    *n = v.n;
+    return DK_OK;
+}
+
+dk_status
+dk_qpm_material_dk(dk_qpm *q, const dk_waves *w, double temp_c, double *dk,
+                   dk_error *err)
+{
+    double np, ns, ni;
+    dk_status s;
+    if ((s = wave_n(q, q->pol[2], w->pump_um, temp_c, &np, err)) ||
+        (s = wave_n(q, q->pol[0], w->signal_um, temp_c, &ns, err)) ||
+        (s = wave_n(q, q->pol[1], w->idler_um, temp_c, &ni, err)))
+        return s;
+    *dk = 2 * M_PI * (np / w->pump_um - ns / w->signal_um - ni / w->idler_um);
+    return DK_OK;
+}
+
+/* Λ(T) / Λ_w from thermal expansion along the grating axis. */
+static double
+expansion(const dk_qpm *q, double temp_c)
+{
+    const dk_crystal *c = q->crystal;
+    return dk_crystal_expansion_factor(c, c->grating_axis, temp_c) /
+           dk_crystal_expansion_factor(c, c->grating_axis, q->written_temp_c);
+}
+
+dk_status
+dk_qpm_period(dk_qpm *q, const dk_waves *w, double temp_c,
+              double *period_written_um, double *period_at_t_um,
+              dk_error *err)
+{
+    double dk;
+    dk_status s = dk_qpm_material_dk(q, w, temp_c, &dk, err);
+    if (s)
+        return s;
+    if (!(dk > 0))
+        return dk_error_set(err, DK_EDOM,
+                            "k_p - k_s - k_i = %.4g rad/um is not positive "
+                            "for polarisations %c%c%c: no grating can "
+                            "compensate it (check the polarisations)",
+                            dk, q->pol[0], q->pol[1], q->pol[2]);
+    double at_t = 2 * M_PI * q->order / dk;
+    *period_at_t_um = at_t;
+    *period_written_um = at_t / expansion(q, temp_c);
+    return DK_OK;
+}
+
+double
+dk_qpm_delta_k(dk_qpm *q, const dk_waves *w, double temp_c, double period_um)
+{
+    double dk;
+    if (dk_qpm_material_dk(q, w, temp_c, &dk, NULL))
+        return NAN;
+    return dk - 2 * M_PI * q->order / (period_um * expansion(q, temp_c));
+}
+
+typedef struct temp_probe {
+    dk_qpm *q;
+    const dk_waves *w;
+    double period;
+} temp_probe;
+
+static double
+dk_of_temp(double t, void *p)
+{
+    temp_probe *tp = p;
+    return dk_qpm_delta_k(tp->q, tp->w, t, tp->period);
+}
+
+dk_status
+dk_qpm_solve_temperature(dk_qpm *q, const dk_waves *w, double period_um,
+                         double lo_c, double hi_c, double *temps, int max,
+                         int *n, dk_error *err)
+{
+    if (!(period_um > 0))
+        return dk_error_set(err, DK_EINVAL, "period must be positive");
+    temp_probe tp = {q, w, period_um};
+    return dk_roots_all(dk_of_temp, &tp, lo_c, hi_c, TEMP_SCAN, TEMP_TOL_C,
+                        temps, max, n, err);
+}
+
+typedef struct freq_probe {
+    dk_qpm *q;
+    double pump, period, temp;
+} freq_probe;
+
+static dk_waves
+waves_of_share(double pump, double x)
+{
+    dk_waves w = {pump, pump / x, pump / (1 - x)};
+    return w;
+}
+
+static double
+dk_of_share(double x, void *p)
+{
+    freq_probe *fp = p;
+    dk_waves w = waves_of_share(fp->pump, x);
+    return dk_qpm_delta_k(fp->q, &w, fp->temp, fp->period);
+}
+
+dk_status
+dk_qpm_solve_wavelengths(dk_qpm *q, double pump_um, double period_um,
+                         double temp_c, dk_waves *sol, int max, int *n,
+                         dk_error *err)
+{
+    *n = 0;
+    if (!(period_um > 0) || !(pump_um > 0))
+        return dk_error_set(err, DK_EINVAL,
+                            "period and pump must be positive");
+    double hi_um = q->crystal->transparency_um[1];
+    double xlo = pump_um / hi_um, xhi = 1 - pump_um / hi_um;
+    if (!(xlo < xhi))
+        return dk_error_set(err, DK_EINVAL,
+                            "pump %.6g um is too long for %s to carry both "
+                            "signal and idler",
+                            pump_um, q->crystal->id);
+    freq_probe fp = {q, pump_um, period_um, temp_c};
+    double x[64];
+    int nx;
+    dk_status s = dk_roots_all(dk_of_share, &fp, xlo, xhi, FREQ_SCAN,
+                               FREQ_TOL, x, 64, &nx, err);
+    if (s)
+        return s;
+    int same = q->pol[0] == q->pol[1];
+    for (int i = nx - 1; i >= 0 && *n < max; i--) {
+        /* Equal polarisations: x and 1 − x are one solution; keep the one
+         * with the shorter signal. */
+        if (same && x[i] < 0.5 - 1e-9)
+            continue;
+        sol[(*n)++] = waves_of_share(pump_um, x[i]);
+    }
+    return DK_OK;
+}
+
+dk_status
+dk_qpm_deff(const dk_qpm *q, double *deff, dk_error *err)
+{
+    dk_dtensor t;
+    dk_status s = dk_dtensor_from_crystal(q->crystal, &t, err);
+    if (s)
+        return s;
+    double e[3][3] = {{0}};
+    const dk_crystal *c = q->crystal;
+    for (int i = 0; i < 3; i++) {
+        char l = q->pol[i];
+        if (l == 'n') {
+            e[i][0] = e[i][1] = e[i][2] = 1 / sqrt(3.0);
+        } else if (l == 'e') {
+            e[i][2] = 1;
+        } else if (l == 'o') {
+            /* Perpendicular to the optic axis Z and to the beam. */
+            e[i][c->grating_axis == 0 ? 1 : 0] = 1;
+        } else {
+            e[i][l - 'X'] = 1;
+        }
+    }
+    double bulk = dk_deff(&t, e[2], e[0], e[1]);
+    *deff = fabs(bulk * dk_qpm_deff_factor(q->order, q->duty));
+    return DK_OK;
+}

@@ -1,0 +1,99 @@
+/*
+ * roots.c - bracket by scanning, refine with Brent (see deltak/roots.h).
+ */
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_roots.h>
+#include <math.h>
+
+#include "deltak/roots.h"
+
+#define MAX_ITER 200   /* Brent converges superlinearly; 200 is ample */
+
+typedef struct wrap {
+    dk_scalar_fn f;
+    void *params;
+} wrap;
+
+static double
+call(double x, void *p)
+{
+    wrap *w = p;
+    return w->f(x, w->params);
+}
+
+dk_status
+dk_root_bracketed(dk_scalar_fn f, void *params, double lo, double hi,
+                  double xtol, double *root, dk_error *err)
+{
+    double flo = f(lo, params), fhi = f(hi, params);
+    if (flo == 0) {
+        *root = lo;
+        return DK_OK;
+    }
+    if (fhi == 0) {
+        *root = hi;
+        return DK_OK;
+    }
+    if (!(flo * fhi < 0))
+        return dk_error_set(err, DK_EINVAL, "no sign change in [%g, %g]", lo,
+                            hi);
+    wrap w = {f, params};
+    gsl_function gf = {call, &w};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    if (!s)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    if (gsl_root_fsolver_set(s, &gf, lo, hi) != GSL_SUCCESS) {
+        gsl_root_fsolver_free(s);
+        return dk_error_set(err, DK_ENOCONV, "root solver could not start "
+                                             "in [%g, %g]", lo, hi);
+    }
+    int status = GSL_CONTINUE;
+    for (int i = 0; i < MAX_ITER && status == GSL_CONTINUE; i++) {
+        if (gsl_root_fsolver_iterate(s) != GSL_SUCCESS)
+            break;
+        status = gsl_root_test_interval(gsl_root_fsolver_x_lower(s),
+                                        gsl_root_fsolver_x_upper(s), xtol, 0);
+    }
+    double x = gsl_root_fsolver_root(s);
+    gsl_root_fsolver_free(s);
+    if (status != GSL_SUCCESS || !isfinite(x))
+        return dk_error_set(err, DK_ENOCONV, "root solver did not converge "
+                                             "in [%g, %g]", lo, hi);
+    *root = x;
+    return DK_OK;
+}
+
+dk_status
+dk_roots_all(dk_scalar_fn f, void *params, double lo, double hi, int nscan,
+             double xtol, double *roots, int maxroots, int *nroots,
+             dk_error *err)
+{
+    *nroots = 0;
+    if (!(lo < hi) || !isfinite(lo) || !isfinite(hi) || nscan < 1 ||
+        !(xtol > 0))
+        return dk_error_set(err, DK_EINVAL,
+                            "bad search interval [%g, %g] or tolerance", lo,
+                            hi);
+    double x0 = lo, f0 = f(lo, params);
+    for (int i = 1; i <= nscan && *nroots < maxroots; i++) {
+        double x1 = lo + (hi - lo) * i / nscan, f1 = f(x1, params);
+        if (isfinite(f0) && isfinite(f1)) {
+            if (f0 == 0) {
+                if (*nroots == 0 || roots[*nroots - 1] != x0)
+                    roots[(*nroots)++] = x0;
+            } else if (f0 * f1 < 0) {
+                double r;
+                dk_status s = dk_root_bracketed(f, params, x0, x1, xtol, &r,
+                                                err);
+                if (s)
+                    return s;
+                roots[(*nroots)++] = r;
+            }
+            if (i == nscan && f1 == 0 && *nroots < maxroots)
+                roots[(*nroots)++] = x1;
+        }
+        x0 = x1;
+        f0 = f1;
+    }
+    return DK_OK;
+}
