@@ -232,3 +232,14 @@ dk_crystal_expansion_factor(const dk_crystal *c, int axis, double temp_c)
     return 1.0 + c->expansion[axis].alpha_per_c * dt +
            c->expansion[axis].beta_per_c2 * dt * dt;
 }
+
+const char *
+dk_crystal_caution_at(const dk_crystal *c, double temp_c)
+{
+    for (int i = 0; i < c->ncaution_ranges; i++) {
+        const dk_caution_range *r = &c->caution_ranges[i];
+        if (r->below ? temp_c < r->temp_c : temp_c > r->temp_c)
+            return r->text;
+    }
+    return NULL;
+}

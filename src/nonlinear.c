@@ -126,5 +126,5 @@ dk_qpm_deff_factor(int m, double duty)
 {
     if (m < 1)
         return 0;
-    return 2.0 / (M_PI * m) * sin(M_PI * m * duty);
+    return fabs(2.0 / (M_PI * m) * sin(M_PI * m * duty));
 }

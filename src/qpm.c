@@ -152,12 +152,13 @@ dk_qpm_period(dk_qpm *q, const dk_waves *w, double temp_c,
     dk_status s = dk_qpm_material_dk(q, w, temp_c, &dk, err);
     if (s)
         return s;
+    /* The grating has Fourier components at ±2πm/Λ, so either sign of
+     * the material mismatch can be compensated. */
+    dk = fabs(dk);
     if (!(dk > 0))
         return dk_error_set(err, DK_EDOM,
-                            "k_p - k_s - k_i = %.4g rad/um is not positive "
-                            "for polarisations %c%c%c: no grating can "
-                            "compensate it (check the polarisations)",
-                            dk, q->pol[0], q->pol[1], q->pol[2]);
+                            "the waves are already phase-matched without a "
+                            "grating (k_p = k_s + k_i): no period needed");
     double at_t = 2 * M_PI * q->order / dk;
     *period_at_t_um = at_t;
     *period_written_um = at_t / expansion(q, temp_c);
@@ -170,7 +171,7 @@ dk_qpm_delta_k(dk_qpm *q, const dk_waves *w, double temp_c, double period_um)
     double dk;
     if (dk_qpm_material_dk(q, w, temp_c, &dk, NULL))
         return NAN;
-    return dk - 2 * M_PI * q->order / (period_um * expansion(q, temp_c));
+    return fabs(dk) - 2 * M_PI * q->order / (period_um * expansion(q, temp_c));
 }
 
 typedef struct temp_probe {
@@ -194,8 +195,14 @@ dk_qpm_solve_temperature(dk_qpm *q, const dk_waves *w, double period_um,
     if (!(period_um > 0))
         return dk_error_set(err, DK_EINVAL, "period must be positive");
     temp_probe tp = {q, w, period_um};
-    return dk_roots_all(dk_of_temp, &tp, lo_c, hi_c, TEMP_SCAN, TEMP_TOL_C,
-                        temps, max, n, err);
+    dk_status s = dk_roots_all(dk_of_temp, &tp, lo_c, hi_c, TEMP_SCAN,
+                               TEMP_TOL_C, temps, max, n, err);
+    /* Range warnings belong to the answers, not to the scan. */
+    q->warnings = 0;
+    double dk;
+    for (int i = 0; !s && i < *n; i++)
+        dk_qpm_material_dk(q, w, temps[i], &dk, NULL);
+    return s;
 }
 
 typedef struct freq_probe {
@@ -249,6 +256,11 @@ dk_qpm_solve_wavelengths(dk_qpm *q, double pump_um, double period_um,
             continue;
         sol[(*n)++] = waves_of_share(pump_um, x[i]);
     }
+    /* Range warnings belong to the answers, not to the scan. */
+    q->warnings = 0;
+    double dk;
+    for (int i = 0; i < *n; i++)
+        dk_qpm_material_dk(q, &sol[i], temp_c, &dk, NULL);
     return DK_OK;
 }
 

@@ -152,4 +152,11 @@ const char *dk_optical_class_str(dk_optical_class k);
 double dk_crystal_expansion_factor(const dk_crystal *c, int axis,
                                    double temp_c);
 
+/*
+ * dk_crystal_caution_at:
+ * Returns: the text of the first caution range of @c that applies at
+ * @temp_c (e.g. photorefractive damage below 100 C), or NULL.
+ */
+const char *dk_crystal_caution_at(const dk_crystal *c, double temp_c);
+
 #endif /* DK_CRYSTAL_H */

@@ -39,7 +39,8 @@ double dk_deff(const dk_dtensor *t, const double a[3], const double b[3],
 
 /*
  * dk_qpm_deff_factor:
- * The reduction of a QPM grating of order @m and duty cycle @duty:
+ * The reduction of a QPM grating of order @m and duty cycle @duty,
+ * in magnitude:
  * (2/(π m)) sin(π m duty) (Fejer et al., IEEE J. Quantum Electron. 28,
  * 2631 (1992), eq. 11). Returns 0 for even orders at 50 % duty.
  */

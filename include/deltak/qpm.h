@@ -2,10 +2,11 @@
  * qpm.h - collinear quasi-phase matching in a poled (or orientation-
  * patterned) crystal: period, temperature and wavelength solvers.
  *
- *   Δk = 2π (n_p/λp − n_s/λs − n_i/λi) − 2π m / Λ(T)          (rad/µm)
+ *   Δk = |2π (n_p/λp − n_s/λs − n_i/λi)| − 2π m / Λ(T)        (rad/µm)
  *   Λ(T) = Λ_w · e(T) / e(T_w),  e(T) = 1 + α(T − T_ref) + β(T − T_ref)²
  *
- * with Λ_w the period as written at temperature T_w (default 25 °C) and
+ * (the grating supplies ±2πm/Λ, so the sign of the material mismatch does
+ * not matter), with Λ_w the period as written at T_w (default 25 °C) and
  * e the thermal expansion along the grating axis from the crystal file.
  * Beams propagate along the grating axis; each wave's polarisation is a
  * principal axis. References: M. M. Fejer, G. A. Magel, D. H. Jundt,
@@ -58,8 +59,8 @@ dk_status dk_qpm_material_dk(dk_qpm *q, const dk_waves *w, double temp_c,
  * dk_qpm_period:
  * The period that phase-matches @w at @temp_c: @period_written_um as
  * written at q->written_temp_c, @period_at_t_um as it is at @temp_c.
- * Returns: DK_OK; DK_EDOM when k_p − k_s − k_i ≤ 0 (no first-order
- * grating can compensate it: the process needs another polarisation).
+ * Returns: DK_OK; DK_EDOM when k_p = k_s + k_i already (no grating is
+ * needed).
  */
 dk_status dk_qpm_period(dk_qpm *q, const dk_waves *w, double temp_c,
                         double *period_written_um, double *period_at_t_um,

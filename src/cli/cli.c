@@ -9,6 +9,7 @@
 
 #include "cli.h"
 #include "deltak/material.h"
+#include "deltak/units.h"
 
 #define MAX_WARNINGS 64
 
@@ -193,4 +194,42 @@ cli_json_num(double v)
     char buf[32];
     snprintf(buf, sizeof buf, "%.12g", v);
     return json_object_new_double_s(v, buf);
+}
+
+int
+cli_parse_waves(const cli_wave_args *a, int need_two, dk_waves *w, int *shg,
+                const char *const usage[])
+{
+    dk_error err = {0};
+    *w = (dk_waves){0, 0, 0};
+    *shg = 0;
+    if (a->fundamental) {
+        if (a->pump || a->signal || a->idler)
+            return cli_usage_error(usage, "--fundamental (SHG) excludes "
+                                          "--pump, --signal and --idler");
+        double f;
+        if (dk_parse_wavelength(a->fundamental, &f, &err))
+            return cli_usage_error(usage, "%s", err.msg);
+        *w = dk_waves_shg(f);
+        *shg = 1;
+        return 0;
+    }
+    const char *txt[3] = {a->pump, a->signal, a->idler};
+    double *val[3] = {&w->pump_um, &w->signal_um, &w->idler_um};
+    for (int i = 0; i < 3; i++)
+        if (txt[i] && dk_parse_wavelength(txt[i], val[i], &err))
+            return cli_usage_error(usage, "%s", err.msg);
+    if (!need_two)
+        return 0;
+    if (dk_waves_complete(w, &err))
+        return cli_usage_error(usage, "%s", err.msg);
+    return 0;
+}
+
+void
+cli_warn_caution(const dk_crystal *c, double temp_c)
+{
+    const char *t = dk_crystal_caution_at(c, temp_c);
+    if (t)
+        cli_warn("%s at %.4g C: %s", c->id, temp_c, t);
 }

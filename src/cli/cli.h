@@ -13,6 +13,7 @@
 
 #include "deltak/crystal.h"
 #include "deltak/dispersion.h"
+#include "deltak/interaction.h"
 
 #define CLI_FAIL 1
 #define CLI_USAGE 2
@@ -86,5 +87,22 @@ void cli_out_json(cli_out *o, json_object *obj);
 /* A double for JSON, rounded to 12 significant digits. */
 json_object *cli_json_num(double v);
 
+
+/* The wavelength options every mixing command takes. */
+typedef struct cli_wave_args {
+    const char *pump, *signal, *idler, *fundamental;
+} cli_wave_args;
+
+/*
+ * Parse the given wavelengths into @w (missing ones 0). With
+ * @need_two, exactly two of pump/signal/idler or --fundamental alone
+ * must be given and the third is filled in. *shg is set for
+ * --fundamental. Prints the error and returns CLI_USAGE on failure.
+ */
+int cli_parse_waves(const cli_wave_args *a, int need_two, dk_waves *w,
+                    int *shg, const char *const usage[]);
+
+/* Warn when @c has a caution range that applies at @temp_c. */
+void cli_warn_caution(const dk_crystal *c, double temp_c);
 
 #endif /* DK_CLI_H */

@@ -16,5 +16,6 @@
 
 int cmd_crystals(int argc, char **argv);
 int cmd_index(int argc, char **argv);
+int cmd_period(int argc, char **argv);
 
 #endif /* DK_CLI_COMMANDS_H */

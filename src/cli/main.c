@@ -20,6 +20,8 @@ static const struct cli_cmd commands[] = {
      "list the crystal database, or show one crystal's data and sources"},
     {"index", cmd_index,
      "refractive index, group index, GVD and TOD of each axis"},
+    {"period", cmd_period,
+     "QPM poling period; or, for a period, temperature or wavelengths"},
 };
 
 #define NCOMMANDS (sizeof commands / sizeof commands[0])

@@ -69,6 +69,25 @@ json_has index-json-all "sets.1.axes.0.n spread.0.n_spread" -- index --crystal M
 json_has index-json-warnings "warnings.0" -- index --crystal MgO:LN --wavelength 4.5um --json
 json_has crystals-json "crystals.0.crystal crystals.0.sets" -- crystals --json
 
+expect period-opo 0 'period 30\.5[0-9]* um as written' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40
+expect period-shg 0 'period 6\.97' -- period --crystal MgO:LN --fundamental 1064nm
+expect period-temp 0 'phase-matches at [0-9.]+ C' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um
+expect period-waves 0 'idler 3\.4[0-9]* um' -- period --crystal MgO:LN --pump 1064nm --period 30.5um --temp 40
+expect period-all-sets 0 'spread over 2 data sets' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --all-sets
+expect period-ktp-type2 0 'period 46\.' -- period --crystal PPKTP --pump 775nm --signal 1550nm --pol yzy --dispersion Fradkin1999
+expect period-unpoled 1 'cannot be periodically poled' -- period --crystal BBO --fundamental 1064nm
+expect period-one-wave 2 'exactly two of pump, signal and idler' -- period --crystal MgO:LN --pump 1064nm
+expect period-impossible 2 'must be longer than the pump' -- period --crystal MgO:LN --pump 1064nm --signal 800nm
+expect period-bad-pol 1 'must have three letters' -- period --crystal MgO:LN --fundamental 1064nm --pol zz
+expect period-overdetermined 2 'drop --temp' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --temp 40
+expect period-no-root 1 'no phase-matching temperature' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 20um
+expect period-caution 0 'photorefractive' -- period --crystal LN --fundamental 1064nm --temp 40
+expect period-no-tdep 1 'no temperature dependence' -- period --crystal MgO:LN --dispersion Zelmon1997 --fundamental 1064nm --period 7um
+json_has period-json "crystal dispersion temperature_C wavelengths_um.pump wavelengths_um.signal wavelengths_um.idler period_um order deff_pm_per_V" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --json
+json_has period-json-sets "sets.0.dispersion sets.0.period_um sets.1.period_um" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --json --all-sets
+json_has period-json-temp "temperature_C solutions.0.temperature_C" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --json
+json_has period-json-waves "wavelengths_um.idler solutions.0.wavelengths_um.signal" -- period --crystal MgO:LN --pump 1064nm --period 30.5um --temp 40 --json
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"
