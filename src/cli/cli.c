@@ -233,3 +233,29 @@ cli_warn_caution(const dk_crystal *c, double temp_c)
     if (t)
         cli_warn("%s at %.4g C: %s", c->id, temp_c, t);
 }
+
+int
+cli_parse_range(const char *s, int wavelengths, double r[2], dk_error *err)
+{
+    char buf[64];
+    const char *colon = strchr(s, ':');
+    const char *example = wavelengths ? "2.8um:4.2um" : "20:200";
+    if (!colon || (size_t)(colon - s) >= sizeof buf)
+        return dk_error_set(err, DK_EINVAL, "range '%s' must look like %s", s,
+                            example);
+    memcpy(buf, s, colon - s);
+    buf[colon - s] = '\0';
+    dk_status st =
+        wavelengths ? dk_parse_wavelength(buf, &r[0], err)
+                    : dk_parse_temperature(buf, &r[0], err);
+    if (!st)
+        st = wavelengths ? dk_parse_wavelength(colon + 1, &r[1], err)
+                         : dk_parse_temperature(colon + 1, &r[1], err);
+    if (st)
+        return st;
+    if (!(r[0] < r[1]))
+        return dk_error_set(err, DK_EINVAL,
+                            "range '%s' must have low < high, e.g. %s", s,
+                            example);
+    return 0;
+}

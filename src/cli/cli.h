@@ -102,6 +102,14 @@ typedef struct cli_wave_args {
 int cli_parse_waves(const cli_wave_args *a, int need_two, dk_waves *w,
                     int *shg, const char *const usage[]);
 
+/*
+ * Parse "LO:HI" into @r (low < high): temperatures in °C when
+ * @wavelengths is 0 ("20:200", "300K:400K"), else wavelengths in µm
+ * ("2.8um:4.2um"). Returns 0, or DK_EINVAL with @err filled.
+ */
+int cli_parse_range(const char *s, int wavelengths, double r[2],
+                    dk_error *err);
+
 /* Warn when @c has a caution range that applies at @temp_c. */
 void cli_warn_caution(const dk_crystal *c, double temp_c);
 

@@ -16,6 +16,8 @@ struct cli_cmd {
 
 /* Sorted by name. */
 static const struct cli_cmd commands[] = {
+    {"chip", cmd_chip,
+     "multi-grating and fan-out poling layouts covering a target range"},
     {"crystals", cmd_crystals,
      "list the crystal database, or show one crystal's data and sources"},
     {"index", cmd_index,

@@ -68,25 +68,6 @@ typedef struct request {
     int shg;
 } request;
 
-static int
-parse_range(const char *s, double r[2], dk_error *err)
-{
-    char buf[64];
-    const char *colon = strchr(s, ':');
-    if (!colon || (size_t)(colon - s) >= sizeof buf)
-        return dk_error_set(err, DK_EINVAL, "temperature range '%s' must "
-                                            "look like 20:200", s);
-    memcpy(buf, s, colon - s);
-    buf[colon - s] = '\0';
-    if (dk_parse_temperature(buf, &r[0], err) ||
-        dk_parse_temperature(colon + 1, &r[1], err))
-        return DK_EINVAL;
-    if (!(r[0] < r[1]))
-        return dk_error_set(err, DK_EINVAL, "temperature range '%s' must "
-                                            "have low < high", s);
-    return 0;
-}
-
 /* Solve for one data set; on failure print or warn per @strict. */
 static int
 solve_set(const request *rq, const dk_dispersion_set *set, result *r,
@@ -456,7 +437,7 @@ cmd_period(int argc, char **argv)
                                duty);
     if ((written && dk_parse_temperature(written, &rq.written_c, &err)) ||
         (temp && dk_parse_temperature(temp, &rq.temp_c, &err)) ||
-        (trange && parse_range(trange, rq.trange, &err)))
+        (trange && cli_parse_range(trange, 0, rq.trange, &err)))
         return cli_usage_error(period_usage, "%s", err.msg);
     rq.have_trange = trange != NULL;
     if (period) {

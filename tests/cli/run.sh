@@ -88,6 +88,14 @@ json_has period-json-sets "sets.0.dispersion sets.0.period_um sets.1.period_um" 
 json_has period-json-temp "temperature_C solutions.0.temperature_C" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --json
 json_has period-json-waves "wavelengths_um.idler solutions.0.wavelengths_um.signal" -- period --crystal MgO:LN --pump 1064nm --period 30.5um --temp 40 --json
 
+expect chip-layout 0 'gratings cover the idler from 2.8 to 4.2' -- chip --crystal MgO:LN --pump 1064nm --idler-range 2.8um:4.2um --oven 30:200
+expect chip-fanout 0 'fan-out, 10 mm wide' -- chip --crystal MgO:LN --pump 1064nm --idler-range 2.8um:4.2um --fanout-width 10mm
+expect chip-caution 0 'photorefractive' -- chip --crystal LN --pump 1064nm --idler-range 3um:3.5um --oven 30:200
+expect chip-no-range 2 'one of --idler-range and --signal-range' -- chip --crystal MgO:LN --pump 1064nm
+expect chip-bad-range 2 'low < high' -- chip --crystal MgO:LN --pump 1064nm --idler-range 4um:3um
+expect chip-unpoled 1 'cannot be periodically poled' -- chip --crystal BBO --pump 1064nm --idler-range 3um:4um
+json_has chip-json "gratings.0.period_um gratings.0.lo_um gratings.0.hi_um fanout.positions.0.period_um" -- chip --crystal MgO:LN --pump 1064nm --idler-range 2.8um:4.2um --fanout-width 10mm --json
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"

@@ -1,0 +1,272 @@
+/*
+ * chip.c - `deltak chip`: a multi-grating poling layout whose oven-tuning
+ * ranges cover a target signal or idler range, and optionally a fan-out
+ * grating for the same range.
+ */
+#include <getopt.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+#include "commands.h"
+#include "deltak/chip.h"
+#include "deltak/units.h"
+
+static const char *const chip_usage[] = {
+    "deltak chip --crystal <name> --pump <wl> (--idler-range <lo:hi> | "
+    "--signal-range <lo:hi>)",
+    "            [--oven <lo:hi>] [--overlap <f>] [--fanout-width <w> "
+    "[--temp <T>] [--positions <n>]]",
+    "            [--pol <sip>] [--order <m>] [--written-temp <T>] "
+    "[--dispersion <set>] [--json | --csv]",
+    "",
+    "  --idler-range <lo:hi>   target idler range, e.g. 2.8um:4.2um (or "
+    "--signal-range)",
+    "  --oven <lo:hi>          oven temperature range in C (default 30:200)",
+    "  --overlap <f>           fraction by which neighbouring gratings "
+    "overlap (default 0.1)",
+    "  --fanout-width <w>      also lay out a fan-out grating this wide, "
+    "e.g. 10mm",
+    "  --temp <T>              oven temperature of the fan-out (default: "
+    "middle of the oven range)",
+    "  --positions <n>         fan-out positions listed (default 11)",
+    NULL};
+
+#define MAX_GRATINGS 64
+#define MAX_POSITIONS 101
+
+typedef struct fan_point {
+    double x_mm, period_um, target_um;
+} fan_point;
+
+int
+cmd_chip(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"crystal", required_argument, NULL, 'c'},
+        {"pump", required_argument, NULL, 'p'},
+        {"idler-range", required_argument, NULL, 'I'},
+        {"signal-range", required_argument, NULL, 'S'},
+        {"oven", required_argument, NULL, 'O'},
+        {"overlap", required_argument, NULL, 'o'},
+        {"fanout-width", required_argument, NULL, 'F'},
+        {"temp", required_argument, NULL, 't'},
+        {"positions", required_argument, NULL, 'n'},
+        {"pol", required_argument, NULL, 'P'},
+        {"order", required_argument, NULL, 'm'},
+        {"written-temp", required_argument, NULL, 'W'},
+        {"dispersion", required_argument, NULL, 'd'},
+        {"json", no_argument, NULL, 'j'},
+        {"csv", no_argument, NULL, 'v'},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0}};
+    const char *crystal = NULL, *pump = NULL, *irange = NULL, *srange = NULL,
+               *oven = NULL, *overlap_s = NULL, *fan = NULL, *temp = NULL,
+               *npos_s = NULL, *pol = NULL, *order_s = NULL, *written = NULL,
+               *set_name = NULL;
+    int json = 0, csv = 0, ch;
+    optind = 1;
+    opterr = 0;
+    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+        switch (ch) {
+        case 'c': crystal = optarg; break;
+        case 'p': pump = optarg; break;
+        case 'I': irange = optarg; break;
+        case 'S': srange = optarg; break;
+        case 'O': oven = optarg; break;
+        case 'o': overlap_s = optarg; break;
+        case 'F': fan = optarg; break;
+        case 't': temp = optarg; break;
+        case 'n': npos_s = optarg; break;
+        case 'P': pol = optarg; break;
+        case 'm': order_s = optarg; break;
+        case 'W': written = optarg; break;
+        case 'd': set_name = optarg; break;
+        case 'j': json = 1; break;
+        case 'v': csv = 1; break;
+        case 'h': cli_print_usage(stdout, chip_usage); return 0;
+        default:
+            return cli_usage_error(chip_usage, "unknown or incomplete option "
+                                               "'%s'",
+                                   argv[optind - 1]);
+        }
+    }
+    if (optind < argc)
+        return cli_usage_error(chip_usage, "unexpected argument '%s'",
+                               argv[optind]);
+    if (!crystal || !pump)
+        return cli_usage_error(chip_usage, "--crystal and --pump are "
+                                           "required");
+    if (!!irange == !!srange)
+        return cli_usage_error(chip_usage, "give one of --idler-range and "
+                                           "--signal-range");
+    if (json && csv)
+        return cli_usage_error(chip_usage, "choose one of --json and --csv");
+    dk_error err = {0};
+    double pump_um, range[2], oven_c[2] = {30, 200}, written_c = 25;
+    double overlap = 0.1, width_mm = 0, fan_t;
+    int order = 1, npos = 11;
+    char *end;
+    if (dk_parse_wavelength(pump, &pump_um, &err) ||
+        cli_parse_range(irange ? irange : srange, 1, range, &err) ||
+        (oven && cli_parse_range(oven, 0, oven_c, &err)) ||
+        (written && dk_parse_temperature(written, &written_c, &err)) ||
+        (fan && dk_parse_length(fan, &width_mm, &err)))
+        return cli_usage_error(chip_usage, "%s", err.msg);
+    fan_t = 0.5 * (oven_c[0] + oven_c[1]);
+    if (temp && dk_parse_temperature(temp, &fan_t, &err))
+        return cli_usage_error(chip_usage, "%s", err.msg);
+    if (overlap_s && ((overlap = strtod(overlap_s, &end)), *end || overlap < 0 ||
+                      overlap >= 0.9))
+        return cli_usage_error(chip_usage, "--overlap '%s' must be a fraction "
+                                           "in [0, 0.9), e.g. 0.1",
+                               overlap_s);
+    if (order_s && ((order = (int)strtol(order_s, &end, 10)) < 1 || *end))
+        return cli_usage_error(chip_usage, "--order '%s' must be a positive "
+                                           "whole number",
+                               order_s);
+    if (npos_s && ((npos = (int)strtol(npos_s, &end, 10)) < 2 || *end ||
+                   npos > MAX_POSITIONS))
+        return cli_usage_error(chip_usage, "--positions must be 2 to %d",
+                               MAX_POSITIONS);
+    int signal = srange != NULL;
+    const char *target = signal ? "signal" : "idler";
+
+    dk_db *db = NULL;
+    if (cli_load_db(&db))
+        return CLI_FAIL;
+    int rc = CLI_FAIL;
+    const dk_crystal *c = cli_find_crystal(db, crystal);
+    const dk_dispersion_set *set = c ? cli_find_set(c, set_name) : NULL;
+    dk_qpm q;
+    dk_grating g[MAX_GRATINGS];
+    fan_point fp[MAX_POSITIONS];
+    int ng = 0;
+    if (!set)
+        goto done;
+    if (!dk_set_has_temperature(set)) {
+        cli_error("data set '%s' has no temperature dependence, so it cannot "
+                  "model oven tuning; pick a temperature-dependent set",
+                  set->name);
+        goto done;
+    }
+    if (dk_qpm_init(&q, c, set, pol, order, 0.5, written_c, &err) ||
+        dk_chip_gratings(&q, pump_um, signal, range[0], range[1], oven_c,
+                         overlap, g, MAX_GRATINGS, &ng, &err)) {
+        cli_error("%s", err.msg);
+        goto done;
+    }
+    if (q.warnings)
+        cli_warn_index(set, q.warnings, q.warn_lambda_um, q.warn_temp_c);
+    cli_warn_caution(c, oven_c[0]);
+    cli_warn_caution(c, oven_c[1]);
+    if (fan) {
+        double p0, p1;
+        if (dk_chip_period_for(&q, pump_um, signal, range[0], fan_t, &p0,
+                               &err) ||
+            dk_chip_period_for(&q, pump_um, signal, range[1], fan_t, &p1,
+                               &err)) {
+            cli_error("%s", err.msg);
+            goto done;
+        }
+        double guess = range[0];
+        for (int k = 0; k < npos; k++) {
+            fp[k].x_mm = width_mm * k / (npos - 1);
+            fp[k].period_um = p0 + (p1 - p0) * k / (npos - 1);
+            fp[k].target_um = dk_chip_target_at(&q, pump_um, signal,
+                                                fp[k].period_um, fan_t, guess);
+            if (isfinite(fp[k].target_um))
+                guess = fp[k].target_um;
+        }
+        cli_warn_caution(c, fan_t);
+    }
+
+    cli_out out;
+    if (cli_out_open(&out))
+        goto done;
+    if (json) {
+        json_object *o = json_object_new_object();
+        json_object_object_add(o, "crystal", json_object_new_string(c->id));
+        json_object_object_add(o, "dispersion",
+                               json_object_new_string(set->name));
+        json_object_object_add(o, "pump_um", cli_json_num(pump_um));
+        json_object_object_add(o, "target", json_object_new_string(target));
+        json_object *tr = json_object_new_array();
+        json_object_array_add(tr, cli_json_num(range[0]));
+        json_object_array_add(tr, cli_json_num(range[1]));
+        json_object_object_add(o, "target_range_um", tr);
+        json_object *ov = json_object_new_array();
+        json_object_array_add(ov, cli_json_num(oven_c[0]));
+        json_object_array_add(ov, cli_json_num(oven_c[1]));
+        json_object_object_add(o, "oven_C", ov);
+        json_object_object_add(o, "written_temperature_C",
+                               cli_json_num(written_c));
+        json_object *arr = json_object_new_array();
+        for (int i = 0; i < ng; i++) {
+            json_object *e = json_object_new_object();
+            json_object_object_add(e, "period_um", cli_json_num(g[i].period_um));
+            json_object_object_add(e, "lo_um", cli_json_num(g[i].lo_um));
+            json_object_object_add(e, "hi_um", cli_json_num(g[i].hi_um));
+            json_object_object_add(e, "temperature_at_lo_C",
+                                   cli_json_num(g[i].t_lo_c));
+            json_object_object_add(e, "temperature_at_hi_C",
+                                   cli_json_num(g[i].t_hi_c));
+            json_object_array_add(arr, e);
+        }
+        json_object_object_add(o, "gratings", arr);
+        if (fan) {
+            json_object *fa = json_object_new_object();
+            json_object_object_add(fa, "width_mm", cli_json_num(width_mm));
+            json_object_object_add(fa, "temperature_C", cli_json_num(fan_t));
+            json_object *pts = json_object_new_array();
+            for (int k = 0; k < npos; k++) {
+                json_object *e = json_object_new_object();
+                json_object_object_add(e, "x_mm", cli_json_num(fp[k].x_mm));
+                json_object_object_add(e, "period_um",
+                                       cli_json_num(fp[k].period_um));
+                json_object_object_add(e, "target_um",
+                                       cli_json_num(fp[k].target_um));
+                json_object_array_add(pts, e);
+            }
+            json_object_object_add(fa, "positions", pts);
+            json_object_object_add(o, "fanout", fa);
+        }
+        cli_warnings_to_json(o);
+        cli_out_json(&out, o);
+    } else if (csv) {
+        fprintf(out.f, "grating,period_um,%s_lo_um,%s_hi_um,"
+                       "temperature_at_lo_C,temperature_at_hi_C\n",
+                target, target);
+        for (int i = 0; i < ng; i++)
+            fprintf(out.f, "%d,%.6f,%.6f,%.6f,%.3f,%.3f\n", i + 1,
+                    g[i].period_um, g[i].lo_um, g[i].hi_um, g[i].t_lo_c,
+                    g[i].t_hi_c);
+    } else {
+        fprintf(out.f, "%s (data set %s), pump %.6g um: %d gratings cover "
+                       "the %s from %.4g to %.4g um\nwith the oven at "
+                       "%.4g-%.4g C (neighbours overlap by %.0f %%; periods "
+                       "as written at %.4g C)\n\n",
+                c->id, set->name, pump_um, ng, target, range[0], range[1],
+                oven_c[0], oven_c[1], overlap * 100, written_c);
+        fprintf(out.f, "  %-3s %12s   %-24s %s\n", "#", "period um",
+                signal ? "signal range um" : "idler range um",
+                "oven C (at low, at high end)");
+        for (int i = 0; i < ng; i++)
+            fprintf(out.f, "  %-3d %12.4f   %8.4f - %-13.4f %6.1f, %6.1f\n",
+                    i + 1, g[i].period_um, g[i].lo_um, g[i].hi_um,
+                    g[i].t_lo_c, g[i].t_hi_c);
+        if (fan) {
+            fprintf(out.f, "\nfan-out, %.4g mm wide, oven at %.4g C: period "
+                           "linear across the width\n  %8s %12s %12s\n",
+                    width_mm, fan_t, "x mm", "period um", target);
+            for (int k = 0; k < npos; k++)
+                fprintf(out.f, "  %8.3f %12.4f %12.4f\n", fp[k].x_mm,
+                        fp[k].period_um, fp[k].target_um);
+        }
+    }
+    rc = cli_out_commit(&out);
+done:
+    dk_db_free(db);
+    return rc;
+}
