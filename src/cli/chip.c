@@ -44,7 +44,7 @@ int
 cmd_chip(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"crystal", required_argument, NULL, 'c'},
+        CLI_COMMON_OPTIONS,
         {"pump", required_argument, NULL, 'p'},
         {"idler-range", required_argument, NULL, 'I'},
         {"signal-range", required_argument, NULL, 'S'},
@@ -56,21 +56,18 @@ cmd_chip(int argc, char **argv)
         {"pol", required_argument, NULL, 'P'},
         {"order", required_argument, NULL, 'm'},
         {"written-temp", required_argument, NULL, 'W'},
-        {"dispersion", required_argument, NULL, 'd'},
-        {"json", no_argument, NULL, 'j'},
-        {"csv", no_argument, NULL, 'v'},
-        {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0}};
-    const char *crystal = NULL, *pump = NULL, *irange = NULL, *srange = NULL,
-               *oven = NULL, *overlap_s = NULL, *fan = NULL, *temp = NULL,
-               *npos_s = NULL, *pol = NULL, *order_s = NULL, *written = NULL,
-               *set_name = NULL;
-    int json = 0, csv = 0, ch;
+    const char *pump = NULL, *irange = NULL, *srange = NULL, *oven = NULL,
+               *overlap_s = NULL, *fan = NULL, *temp = NULL, *npos_s = NULL,
+               *pol = NULL, *order_s = NULL, *written = NULL;
+    cli_common cm = {0};
+    int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
+            continue;
         switch (ch) {
-        case 'c': crystal = optarg; break;
         case 'p': pump = optarg; break;
         case 'I': irange = optarg; break;
         case 'S': srange = optarg; break;
@@ -82,27 +79,18 @@ cmd_chip(int argc, char **argv)
         case 'P': pol = optarg; break;
         case 'm': order_s = optarg; break;
         case 'W': written = optarg; break;
-        case 'd': set_name = optarg; break;
-        case 'j': json = 1; break;
-        case 'v': csv = 1; break;
         case 'h': cli_print_usage(stdout, chip_usage); return 0;
-        default:
-            return cli_usage_error(chip_usage, "unknown or incomplete option "
-                                               "'%s'",
-                                   argv[optind - 1]);
+        default: return cli_bad_option(argv, chip_usage);
         }
     }
-    if (optind < argc)
-        return cli_usage_error(chip_usage, "unexpected argument '%s'",
-                               argv[optind]);
-    if (!crystal || !pump)
-        return cli_usage_error(chip_usage, "--crystal and --pump are "
-                                           "required");
+    if ((rc = cli_common_finish(&cm, argc, argv, 0, chip_usage)))
+        return rc;
+    int json = cm.json, csv = cm.csv;
+    if (!pump)
+        return cli_usage_error(chip_usage, "--pump is required");
     if (!!irange == !!srange)
         return cli_usage_error(chip_usage, "give one of --idler-range and "
                                            "--signal-range");
-    if (json && csv)
-        return cli_usage_error(chip_usage, "choose one of --json and --csv");
     dk_error err = {0};
     double pump_um, range[2], oven_c[2] = {30, 200}, written_c = 25;
     double overlap = 0.1, width_mm = 0, fan_t;
@@ -136,9 +124,9 @@ cmd_chip(int argc, char **argv)
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
-    int rc = CLI_FAIL;
-    const dk_crystal *c = cli_find_crystal(db, crystal);
-    const dk_dispersion_set *set = c ? cli_find_set(c, set_name) : NULL;
+    rc = CLI_FAIL;
+    const dk_crystal *c = cli_find_crystal(db, cm.crystal);
+    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
     dk_qpm q;
     dk_grating g[MAX_GRATINGS];
     fan_point fp[MAX_POSITIONS];

@@ -3,6 +3,7 @@
  * the command files (see cli.h).
  */
 #include <math.h>
+#include <getopt.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
@@ -258,4 +259,44 @@ cli_parse_range(const char *s, int wavelengths, double r[2], dk_error *err)
                             "range '%s' must have low < high, e.g. %s", s,
                             example);
     return 0;
+}
+
+int
+cli_common_option(int ch, cli_common *cm)
+{
+    switch (ch) {
+    case 'c': cm->crystal = optarg; return 1;
+    case 'd': cm->set_name = optarg; return 1;
+    case 'a': cm->all = 1; return 1;
+    case 'j': cm->json = 1; return 1;
+    case 'v': cm->csv = 1; return 1;
+    }
+    return 0;
+}
+
+int
+cli_common_finish(const cli_common *cm, int argc, char **argv, int allow_all,
+                  const char *const usage[])
+{
+    if (optind < argc)
+        return cli_usage_error(usage, "unexpected argument '%s'",
+                               argv[optind]);
+    if (!cm->crystal)
+        return cli_usage_error(usage, "--crystal is required");
+    if (cm->json && cm->csv)
+        return cli_usage_error(usage, "choose one of --json and --csv");
+    if (cm->all && !allow_all)
+        return cli_usage_error(usage, "--all-sets does not apply here; use "
+                                      "--dispersion to pick a set");
+    if (cm->all && cm->set_name)
+        return cli_usage_error(usage, "choose one of --dispersion and "
+                                      "--all-sets");
+    return 0;
+}
+
+int
+cli_bad_option(char **argv, const char *const usage[])
+{
+    return cli_usage_error(usage, "unknown or incomplete option '%s'",
+                           argv[optind - 1]);
 }

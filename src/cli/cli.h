@@ -88,6 +88,35 @@ void cli_out_json(cli_out *o, json_object *obj);
 json_object *cli_json_num(double v);
 
 
+/* Options every crystal command takes. */
+typedef struct cli_common {
+    const char *crystal;   /* --crystal */
+    const char *set_name;  /* --dispersion; NULL: the default set */
+    int all;               /* --all-sets */
+    int json, csv;         /* --json, --csv */
+} cli_common;
+
+#define CLI_COMMON_OPTIONS                                                   \
+    {"crystal", required_argument, NULL, 'c'},                               \
+        {"dispersion", required_argument, NULL, 'd'},                        \
+        {"all-sets", no_argument, NULL, 'a'},                                \
+        {"json", no_argument, NULL, 'j'}, {"csv", no_argument, NULL, 'v'},   \
+        {"help", no_argument, NULL, 'h'}
+
+/* Take a common option (getopt code @ch); returns 1 if it was one. */
+int cli_common_option(int ch, cli_common *cm);
+
+/*
+ * After the option loop: no leftover arguments, --crystal given, and
+ * --json/--csv and --dispersion/--all-sets not combined (--all-sets is
+ * refused when @allow_all is 0). Returns 0 or CLI_USAGE after printing.
+ */
+int cli_common_finish(const cli_common *cm, int argc, char **argv,
+                      int allow_all, const char *const usage[]);
+
+/* For getopt's '?' and ':' codes: print the error and usage; CLI_USAGE. */
+int cli_bad_option(char **argv, const char *const usage[]);
+
 /* The wavelength options every mixing command takes. */
 typedef struct cli_wave_args {
     const char *pump, *signal, *idler, *fundamental;

@@ -132,47 +132,31 @@ int
 cmd_index(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"crystal", required_argument, NULL, 'c'},
+        CLI_COMMON_OPTIONS,
         {"wavelength", required_argument, NULL, 'w'},
         {"temp", required_argument, NULL, 't'},
-        {"dispersion", required_argument, NULL, 'd'},
-        {"all-sets", no_argument, NULL, 'a'},
-        {"json", no_argument, NULL, 'j'},
-        {"csv", no_argument, NULL, 'v'},
-        {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0}};
-    const char *crystal = NULL, *wl = NULL, *temp = NULL, *set_name = NULL;
-    int all = 0, json = 0, csv = 0, ch;
+    cli_common cm = {0};
+    const char *wl = NULL, *temp = NULL;
+    int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
+            continue;
         switch (ch) {
-        case 'c': crystal = optarg; break;
         case 'w': wl = optarg; break;
         case 't': temp = optarg; break;
-        case 'd': set_name = optarg; break;
-        case 'a': all = 1; break;
-        case 'j': json = 1; break;
-        case 'v': csv = 1; break;
         case 'h': cli_print_usage(stdout, index_usage); return 0;
-        default:
-            return cli_usage_error(index_usage, "unknown or incomplete "
-                                                "option '%s'",
-                                   argv[optind - 1]);
+        default: return cli_bad_option(argv, index_usage);
         }
     }
-    if (optind < argc)
-        return cli_usage_error(index_usage, "unexpected argument '%s'",
-                               argv[optind]);
-    if (!crystal)
-        return cli_usage_error(index_usage, "--crystal is required");
+    if ((rc = cli_common_finish(&cm, argc, argv, 1, index_usage)))
+        return rc;
     if (!wl)
         return cli_usage_error(index_usage, "--wavelength is required");
-    if (json && csv)
-        return cli_usage_error(index_usage, "choose one of --json and --csv");
-    if (all && set_name)
-        return cli_usage_error(index_usage, "choose one of --dispersion and "
-                                            "--all-sets");
+    const char *set_name = cm.set_name;
+    int all = cm.all, json = cm.json, csv = cm.csv;
     dk_error err = {0};
     double lambda_um, temp_c = 25;
     if (dk_parse_wavelength(wl, &lambda_um, &err) ||
@@ -182,8 +166,8 @@ cmd_index(int argc, char **argv)
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
-    int rc = CLI_FAIL;
-    const dk_crystal *c = cli_find_crystal(db, crystal);
+    rc = CLI_FAIL;
+    const dk_crystal *c = cli_find_crystal(db, cm.crystal);
     const dk_dispersion_set *only = NULL;
     if (!c || (!all && !(only = cli_find_set(c, set_name))))
         goto done;

@@ -359,7 +359,7 @@ int
 cmd_period(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"crystal", required_argument, NULL, 'c'},
+        CLI_COMMON_OPTIONS,
         {"pump", required_argument, NULL, 'p'},
         {"signal", required_argument, NULL, 's'},
         {"idler", required_argument, NULL, 'i'},
@@ -371,22 +371,19 @@ cmd_period(int argc, char **argv)
         {"order", required_argument, NULL, 'm'},
         {"duty", required_argument, NULL, 'D'},
         {"written-temp", required_argument, NULL, 'W'},
-        {"dispersion", required_argument, NULL, 'd'},
-        {"all-sets", no_argument, NULL, 'a'},
-        {"json", no_argument, NULL, 'j'},
-        {"csv", no_argument, NULL, 'v'},
-        {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0}};
-    const char *crystal = NULL, *temp = NULL, *period = NULL, *set_name = NULL,
-               *trange = NULL, *order = NULL, *duty = NULL, *written = NULL;
+    const char *temp = NULL, *period = NULL, *trange = NULL, *order = NULL,
+               *duty = NULL, *written = NULL;
+    cli_common cm = {0};
     cli_wave_args wa = {0};
     request rq = {0};
-    int all = 0, json = 0, csv = 0, ch;
+    int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
+            continue;
         switch (ch) {
-        case 'c': crystal = optarg; break;
         case 'p': wa.pump = optarg; break;
         case 's': wa.signal = optarg; break;
         case 'i': wa.idler = optarg; break;
@@ -398,28 +395,13 @@ cmd_period(int argc, char **argv)
         case 'm': order = optarg; break;
         case 'D': duty = optarg; break;
         case 'W': written = optarg; break;
-        case 'd': set_name = optarg; break;
-        case 'a': all = 1; break;
-        case 'j': json = 1; break;
-        case 'v': csv = 1; break;
         case 'h': cli_print_usage(stdout, period_usage); return 0;
-        default:
-            return cli_usage_error(period_usage, "unknown or incomplete "
-                                                 "option '%s'",
-                                   argv[optind - 1]);
+        default: return cli_bad_option(argv, period_usage);
         }
     }
-    if (optind < argc)
-        return cli_usage_error(period_usage, "unexpected argument '%s'",
-                               argv[optind]);
-    if (!crystal)
-        return cli_usage_error(period_usage, "--crystal is required");
-    if (json && csv)
-        return cli_usage_error(period_usage, "choose one of --json and "
-                                             "--csv");
-    if (all && set_name)
-        return cli_usage_error(period_usage, "choose one of --dispersion and "
-                                             "--all-sets");
+    if ((rc = cli_common_finish(&cm, argc, argv, 1, period_usage)))
+        return rc;
+    int all = cm.all, json = cm.json, csv = cm.csv;
     dk_error err = {0};
     rq.order = 1;
     rq.duty = 0.5;
@@ -471,12 +453,12 @@ cmd_period(int argc, char **argv)
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
-    int rc = CLI_FAIL;
+    rc = CLI_FAIL;
     result res[32];
     int nres = 0;
-    rq.c = cli_find_crystal(db, crystal);
+    rq.c = cli_find_crystal(db, cm.crystal);
     const dk_dispersion_set *only = NULL;
-    if (!rq.c || (!all && !(only = cli_find_set(rq.c, set_name))))
+    if (!rq.c || (!all && !(only = cli_find_set(rq.c, cm.set_name))))
         goto done;
     for (int s = 0; s < rq.c->nsets && nres < 32; s++) {
         if (only && &rq.c->sets[s] != only)
