@@ -14,6 +14,7 @@
 #ifndef DK_CLI_COMMANDS_H
 #define DK_CLI_COMMANDS_H
 
+int cmd_angle(int argc, char **argv);
 int cmd_chip(int argc, char **argv);
 int cmd_crystals(int argc, char **argv);
 int cmd_index(int argc, char **argv);

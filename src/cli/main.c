@@ -16,6 +16,8 @@ struct cli_cmd {
 
 /* Sorted by name. */
 static const struct cli_cmd commands[] = {
+    {"angle", cmd_angle,
+     "birefringent phase-matching directions, walk-off and d_eff"},
     {"chip", cmd_chip,
      "multi-grating and fan-out poling layouts covering a target range"},
     {"crystals", cmd_crystals,

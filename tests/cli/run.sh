@@ -96,6 +96,17 @@ expect chip-bad-range 2 'low < high' -- chip --crystal MgO:LN --pump 1064nm --id
 expect chip-unpoled 1 'cannot be periodically poled' -- chip --crystal BBO --pump 1064nm --idler-range 3um:4um
 json_has chip-json "gratings.0.period_um gratings.0.lo_um gratings.0.hi_um fanout.positions.0.period_um" -- chip --crystal MgO:LN --pump 1064nm --idler-range 2.8um:4.2um --fanout-width 10mm --json
 
+expect angle-bbo 0 'I +oo -> e +- +23\.[34]' -- angle --crystal BBO --fundamental 1030nm --type I
+expect angle-bbo-deff 0 'd_eff' -- angle --crystal BBO --fundamental 1064nm
+expect angle-ktp-xy 0 'XY' -- angle --crystal KTP --fundamental 1064nm --type II
+expect angle-magic 0 'noncollinear alpha 3\.8' -- angle --crystal BBO --pump 400nm --signal 600nm --magic
+expect angle-ncpm 0 'X +1[0-9][0-9]\.' -- angle --crystal LBO --fundamental 1064nm --ncpm --dispersion Kato1994
+expect angle-cut 0 'ext deg' -- angle --crystal BBO --fundamental 1064nm --type I --cut 23
+expect angle-isotropic 1 'isotropic' -- angle --crystal GaAs --fundamental 4um
+expect angle-bad-type 2 "must be I or II" -- angle --crystal BBO --fundamental 1064nm --type III
+json_has angle-json "crystal dispersion wavelengths_um.pump solutions.0.type solutions.0.pol solutions.0.theta_deg solutions.0.phi_deg solutions.0.deff_pm_per_V solutions.0.walkoff_mrad.signal solutions.0.walkoff_mrad.idler solutions.0.walkoff_mrad.pump" -- angle --crystal BBO --fundamental 1030nm --type I --json
+json_has angle-json-sets "sets.2.solutions.0.theta_deg" -- angle --crystal BBO --fundamental 1030nm --type I --json --all-sets
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"
