@@ -26,6 +26,8 @@ static const struct cli_cmd commands[] = {
      "refractive index, group index, GVD and TOD of each axis"},
     {"period", cmd_period,
      "QPM poling period; or, for a period, temperature or wavelengths"},
+    {"tolerance", cmd_tolerance,
+     "spectral, thermal and angular acceptance (FWHM) and sinc^2 curves"},
 };
 
 #define NCOMMANDS (sizeof commands / sizeof commands[0])

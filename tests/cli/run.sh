@@ -107,6 +107,15 @@ expect angle-bad-type 2 "must be I or II" -- angle --crystal BBO --fundamental 1
 json_has angle-json "crystal dispersion wavelengths_um.pump solutions.0.type solutions.0.pol solutions.0.theta_deg solutions.0.phi_deg solutions.0.deff_pm_per_V solutions.0.walkoff_mrad.signal solutions.0.walkoff_mrad.idler solutions.0.walkoff_mrad.pump" -- angle --crystal BBO --fundamental 1030nm --type I --json
 json_has angle-json-sets "sets.2.solutions.0.theta_deg" -- angle --crystal BBO --fundamental 1030nm --type I --json --all-sets
 
+expect tol-qpm 0 'temperature +10\.[0-9]+ C' -- tolerance --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --length 20mm
+expect tol-bbo 0 'angle theta' -- tolerance --crystal BBO --fundamental 1064nm --type I --length 10mm
+expect tol-ncpm 0 'noncritical' -- tolerance --crystal LBO --fundamental 1064nm --dispersion Kato1994 --type I --theta 90 --temp 163.7 --length 10mm
+expect tol-curve 0 '^temperature_C,sinc2' -- tolerance --crystal MgO:LN --fundamental 1064nm --length 10mm --curve temperature
+expect tol-no-length 2 '--length is required' -- tolerance --crystal MgO:LN --fundamental 1064nm
+expect tol-bad-curve 2 "must be one of" -- tolerance --crystal MgO:LN --fundamental 1064nm --length 1cm --curve colour
+json_has tol-json "length_mm temperature_fwhm_C spectral_fwhm_nm.signal spectral_fwhm_nm.idler spectral_fwhm_nm.pump" -- tolerance --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --length 20mm --json
+json_has tol-json-angle "length_mm temperature_fwhm_C angular_fwhm_mrad.theta angular_fwhm_mrad.phi" -- tolerance --crystal KTP --fundamental 1064nm --type II --length 10mm --json
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"

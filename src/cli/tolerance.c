@@ -1,0 +1,433 @@
+/*
+ * tolerance.c - `deltak tolerance`: spectral, thermal and angular
+ * acceptance (FWHM of sinc²) of a QPM or birefringent design, and the
+ * acceptance curves as CSV.
+ */
+#include <getopt.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+#include "commands.h"
+#include "deltak/tolerance.h"
+#include "deltak/units.h"
+
+static const char *const tolerance_usage[] = {
+    "deltak tolerance --crystal <name> (--fundamental <wl> | two of --pump/"
+    "--signal/--idler)",
+    "                 --length <L> [--temp <T>] [--period <P> | --type I|II "
+    "[--pol <sip>] [--theta <deg>]]",
+    "                 [--dispersion <set>] [--json | --csv] [--curve "
+    "<param>]",
+    "",
+    "  --length <L>      crystal length, e.g. 20mm",
+    "  --period <P>      QPM period as written: the design is phase-matched "
+    "in temperature",
+    "  --temp <T>        operating temperature (with --period: the nearest "
+    "phase-matching one)",
+    "  --type, --pol     birefringent design: which solution of 'deltak "
+    "angle' to use",
+    "  --theta <deg>     birefringent design: the solution nearest this "
+    "angle",
+    "  --curve <param>   print sinc^2 against temperature, signal, pump, "
+    "theta, phi, period or tilt",
+    "",
+    "Poled crystals get a QPM design unless --type or --theta is given.",
+    NULL};
+
+#define DEG (M_PI / 180)
+
+typedef struct item {
+    dk_tol_param p;
+    const char *name;   /* for humans */
+    const char *key;    /* for --curve */
+    const char *unit;
+    double scale;       /* x units → display units */
+} item;
+
+static const item items[] = {
+    {DK_TOL_TEMPERATURE, "temperature", "temperature", "C", 1},
+    {DK_TOL_SIGNAL, "signal, pump fixed", "signal", "nm", 1e3},
+    {DK_TOL_PUMP, "pump, signal fixed", "pump", "nm", 1e3},
+    {DK_TOL_THETA, "angle theta (internal)", "theta", "mrad", 1e3},
+    {DK_TOL_PHI, "angle phi (internal)", "phi", "mrad", 1e3},
+    {DK_TOL_PERIOD, "period (fabrication)", "period", "nm", 1e3},
+    {DK_TOL_TILT, "beam tilt (internal)", "tilt", "mrad", 1e3},
+};
+#define NITEMS (sizeof items / sizeof items[0])
+
+/* The operating point of a QPM design; 0 or CLI_FAIL after printing. */
+static int
+setup_qpm(dk_design *d, const dk_crystal *c, const dk_dispersion_set *set,
+          const char *pol, int order, double period_um, int have_temp)
+{
+    dk_error err = {0};
+    d->kind = DK_DESIGN_QPM;
+    if (dk_qpm_init(&d->qpm, c, set, pol, order, 0.5, 25, &err))
+        return cli_error("%s", err.msg);
+    if (period_um > 0) {
+        const double *r = set->temp_form == DK_TEMP_NONE
+                              ? set->thermo.temperature_range_c
+                              : set->temperature_range_c;
+        double lo = fmin(r[0], have_temp ? d->temp_c - 50 : r[0]) - 50;
+        double hi = fmax(r[1], have_temp ? d->temp_c + 50 : r[1]) + 50;
+        double t[16];
+        int n;
+        if (!dk_set_has_temperature(set))
+            return cli_error("data set '%s' has no temperature dependence: "
+                             "give --temp without --period instead",
+                             set->name);
+        if (dk_qpm_solve_temperature(&d->qpm, &d->waves, period_um, lo, hi,
+                                     t, 16, &n, &err))
+            return cli_error("%s", err.msg);
+        if (n == 0)
+            return cli_error("the %.6g um period phase-matches at no "
+                             "temperature between %.4g and %.4g C",
+                             period_um, lo, hi);
+        int best = 0;
+        for (int i = 1; i < n; i++)
+            if (have_temp && fabs(t[i] - d->temp_c) < fabs(t[best] - d->temp_c))
+                best = i;
+        d->temp_c = t[best];
+        d->period_um = period_um;
+        return 0;
+    }
+    double pt;
+    if (dk_qpm_period(&d->qpm, &d->waves, d->temp_c, &d->period_um, &pt,
+                      &err))
+        return cli_error("%s", err.msg);
+    return 0;
+}
+
+static int
+setup_angle(dk_design *d, const dk_crystal *c, const dk_dispersion_set *set,
+            const char *pol, const char *type, double theta)
+{
+    dk_error err = {0};
+    d->kind = DK_DESIGN_ANGLE;
+    dk_angle_problem pb = {c, set, d->waves, d->shg, d->temp_c, 0, 0};
+    dk_angle_solution sol[DK_ANGLE_MAX_SOL];
+    int n;
+    if (dk_angle_solve(&pb, NAN, pol, sol, DK_ANGLE_MAX_SOL, &n, &err))
+        return cli_error("%s", err.msg);
+    int best = -1;
+    for (int i = 0; i < n; i++) {
+        if (type && strcmp(sol[i].type, type))
+            continue;
+        if (best < 0 || (isfinite(theta) &&
+                         fabs(sol[i].theta_rad - theta) <
+                             fabs(sol[best].theta_rad - theta)))
+            best = i;
+    }
+    if (best < 0)
+        return cli_error("%s does not phase-match this process%s%s%s", c->id,
+                         type ? " in type " : "", type ? type : "",
+                         pol ? " with the given --pol" : "");
+    d->angle = pb;
+    memcpy(d->pol, sol[best].pol, 4);
+    d->theta_rad = sol[best].theta_rad;
+    d->phi_rad = sol[best].phi_rad;
+    return 0;
+}
+
+/* Per-length product: ×L for critical, ×√L for noncritical widths. */
+static double
+per_length(const dk_acceptance *a, double length_cm, int *root)
+{
+    *root = !(isfinite(a->linear_fwhm) &&
+              fabs(a->linear_fwhm - a->fwhm) < 0.2 * a->fwhm);
+    return a->fwhm * (*root ? sqrt(length_cm) : length_cm);
+}
+
+static int
+print_curve(FILE *f, dk_design *d, const item *it)
+{
+    dk_acceptance a;
+    dk_error err = {0};
+    if (dk_design_tolerance(d, it->p, &a, &err))
+        return cli_error("%s", err.msg);
+    if (!a.bounded)
+        return cli_error("the %s acceptance is unbounded in the search "
+                         "range; no curve to draw",
+                         it->name);
+    double w = a.fwhm, x0 = a.peak;
+    fprintf(f, "%s_%s,sinc2\n", it->key, it->unit);
+    for (int k = 0; k <= 200; k++) {
+        double x = x0 - 2 * w + 4 * w * k / 200;
+        double dk = dk_design_delta_k(d, it->p, x);
+        fprintf(f, "%.10g,%.8f\n", x * it->scale,
+                dk_sinc2(dk, d->length_mm * 1e3));
+    }
+    return 0;
+}
+
+int
+cmd_tolerance(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        CLI_COMMON_OPTIONS,
+        {"pump", required_argument, NULL, 'p'},
+        {"signal", required_argument, NULL, 's'},
+        {"idler", required_argument, NULL, 'i'},
+        {"fundamental", required_argument, NULL, 'f'},
+        {"temp", required_argument, NULL, 't'},
+        {"length", required_argument, NULL, 'L'},
+        {"period", required_argument, NULL, 'P'},
+        {"pol", required_argument, NULL, 'o'},
+        {"type", required_argument, NULL, 'T'},
+        {"theta", required_argument, NULL, 'Q'},
+        {"order", required_argument, NULL, 'm'},
+        {"curve", required_argument, NULL, 'C'},
+        {NULL, 0, NULL, 0}};
+    cli_common cm = {0};
+    cli_wave_args wa = {0};
+    const char *temp = NULL, *len = NULL, *period = NULL, *pol = NULL,
+               *type = NULL, *theta_s = NULL, *order_s = NULL, *curve = NULL;
+    int ch, rc;
+    optind = 1;
+    opterr = 0;
+    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
+            continue;
+        switch (ch) {
+        case 'p': wa.pump = optarg; break;
+        case 's': wa.signal = optarg; break;
+        case 'i': wa.idler = optarg; break;
+        case 'f': wa.fundamental = optarg; break;
+        case 't': temp = optarg; break;
+        case 'L': len = optarg; break;
+        case 'P': period = optarg; break;
+        case 'o': pol = optarg; break;
+        case 'T': type = optarg; break;
+        case 'Q': theta_s = optarg; break;
+        case 'm': order_s = optarg; break;
+        case 'C': curve = optarg; break;
+        case 'h': cli_print_usage(stdout, tolerance_usage); return 0;
+        default: return cli_bad_option(argv, tolerance_usage);
+        }
+    }
+    if ((rc = cli_common_finish(&cm, argc, argv, 0, tolerance_usage)))
+        return rc;
+    dk_design d = {0};
+    dk_error err = {0};
+    if (cli_parse_waves(&wa, 1, &d.waves, &d.shg, tolerance_usage))
+        return CLI_USAGE;
+    if (!len)
+        return cli_usage_error(tolerance_usage, "--length is required, e.g. "
+                                                "--length 20mm");
+    double period_um = 0, theta = NAN;
+    int order = 1;
+    char *end;
+    d.temp_c = 25;
+    if (dk_parse_length(len, &d.length_mm, &err) ||
+        (temp && dk_parse_temperature(temp, &d.temp_c, &err)) ||
+        (period && dk_parse_length(period, &period_um, &err)))
+        return cli_usage_error(tolerance_usage, "%s", err.msg);
+    period_um *= 1e3;
+    if (theta_s && (theta = strtod(theta_s, &end) * DEG, *end))
+        return cli_usage_error(tolerance_usage, "--theta '%s' must be "
+                                                "degrees",
+                               theta_s);
+    if (order_s && ((order = (int)strtol(order_s, &end, 10)) < 1 || *end))
+        return cli_usage_error(tolerance_usage, "--order must be a positive "
+                                                "whole number");
+    if (type && strcmp(type, "I") && strcmp(type, "II"))
+        return cli_usage_error(tolerance_usage, "--type must be I or II");
+    const item *want = NULL;
+    for (size_t i = 0; curve && i < NITEMS; i++)
+        if (!strcmp(curve, items[i].key))
+            want = &items[i];
+    if (curve && !want)
+        return cli_usage_error(tolerance_usage, "--curve '%s' must be one of "
+                                                "temperature, signal, pump, "
+                                                "theta, phi, period, tilt",
+                               curve);
+
+    dk_db *db = NULL;
+    if (cli_load_db(&db))
+        return CLI_FAIL;
+    rc = CLI_FAIL;
+    const dk_crystal *c = cli_find_crystal(db, cm.crystal);
+    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
+    if (!set)
+        goto done;
+    if (!temp && !dk_set_has_temperature(set))
+        d.temp_c = set->reference_temperature_c;
+    int qpm = period_um > 0 ||
+              (c->poling != DK_POLING_NONE && !type && !theta_s);
+    if (qpm ? setup_qpm(&d, c, set, pol, order, period_um, temp != NULL)
+            : setup_angle(&d, c, set, pol, type, theta))
+        goto done;
+
+    cli_out out;
+    if (cli_out_open(&out))
+        goto done;
+    if (want) {
+        if (print_curve(out.f, &d, want)) {
+            cli_out_discard(&out);
+            goto done;
+        }
+        rc = cli_out_commit(&out);
+        goto done;
+    }
+    dk_acceptance acc[NITEMS];
+    int have[NITEMS] = {0};
+    for (size_t i = 0; i < NITEMS; i++) {
+        if (!dk_design_applies(&d, items[i].p))
+            continue;
+        if (dk_design_tolerance(&d, items[i].p, &acc[i], &err)) {
+            cli_error("%s", err.msg);
+            cli_out_discard(&out);
+            goto done;
+        }
+        have[i] = 1;
+    }
+    /* Range warnings of the operating point, not of the searches. */
+    d.qpm.warnings = d.angle.warnings = 0;
+    dk_design_delta_k(&d, DK_TOL_TEMPERATURE, d.temp_c);
+    unsigned warn = d.kind == DK_DESIGN_QPM ? d.qpm.warnings
+                                            : d.angle.warnings;
+    cli_warn_index(set, warn, d.kind == DK_DESIGN_QPM && d.qpm.warn_lambda_um
+                                  ? d.qpm.warn_lambda_um
+                                  : d.waves.idler_um,
+                   d.temp_c);
+    cli_warn_caution(c, d.temp_c);
+    double lcm = d.length_mm / 10;
+    /* Idler width from the signal edges (energy conservation). */
+    double idl_nm = NAN, sig_cm = NAN;
+    if (have[1] && acc[1].bounded && !d.shg) {
+        double il = 1 / (1 / d.waves.pump_um - 1 / acc[1].lo);
+        double ih = 1 / (1 / d.waves.pump_um - 1 / acc[1].hi);
+        idl_nm = fabs(il - ih) * 1e3;
+    }
+    if (have[1] && acc[1].bounded)
+        sig_cm = 1e4 * fabs(1 / acc[1].lo - 1 / acc[1].hi);
+    if (cm.json) {
+        json_object *o = json_object_new_object();
+        json_object_object_add(o, "crystal", json_object_new_string(c->id));
+        json_object_object_add(o, "dispersion",
+                               json_object_new_string(set->name));
+        json_object_object_add(o, "design",
+                               json_object_new_string(qpm ? "qpm"
+                                                          : "birefringent"));
+        json_object_object_add(o, "length_mm", cli_json_num(d.length_mm));
+        json_object_object_add(o, "temperature_C", cli_json_num(d.temp_c));
+        if (qpm)
+            json_object_object_add(o, "period_um", cli_json_num(d.period_um));
+        else {
+            json_object_object_add(o, "pol", json_object_new_string(d.pol));
+            json_object_object_add(o, "theta_deg",
+                                   cli_json_num(d.theta_rad / DEG));
+            json_object_object_add(o, "phi_deg",
+                                   cli_json_num(d.phi_rad / DEG));
+        }
+        json_object *spec = json_object_new_object(),
+                    *ang = json_object_new_object(),
+                    *lin = json_object_new_object();
+        for (size_t i = 0; i < NITEMS; i++) {
+            if (!have[i])
+                continue;
+            double v = acc[i].bounded ? acc[i].fwhm * items[i].scale : NAN;
+            double l = acc[i].linear_fwhm * items[i].scale;
+            json_object_object_add(lin, items[i].key, cli_json_num(l));
+            switch (items[i].p) {
+            case DK_TOL_TEMPERATURE:
+                json_object_object_add(o, "temperature_fwhm_C",
+                                       cli_json_num(v));
+                break;
+            case DK_TOL_SIGNAL:
+            case DK_TOL_PUMP:
+                json_object_object_add(spec, items[i].key, cli_json_num(v));
+                break;
+            case DK_TOL_THETA:
+            case DK_TOL_PHI:
+            case DK_TOL_TILT:
+                json_object_object_add(ang, items[i].key, cli_json_num(v));
+                break;
+            case DK_TOL_PERIOD:
+                json_object_object_add(o, "period_fwhm_nm", cli_json_num(v));
+                break;
+            }
+        }
+        if (isfinite(idl_nm))
+            json_object_object_add(spec, "idler", cli_json_num(idl_nm));
+        if (d.shg)
+            json_object_object_add(spec, "fundamental",
+                                   cli_json_num(acc[1].fwhm * 1e3));
+        json_object_object_add(o, "spectral_fwhm_nm", spec);
+        if (isfinite(sig_cm))
+            json_object_object_add(o, "signal_fwhm_cm-1",
+                                   cli_json_num(sig_cm));
+        json_object_object_add(o, "angular_fwhm_mrad", ang);
+        json_object_object_add(o, "linear_estimates", lin);
+        cli_warnings_to_json(o);
+        cli_out_json(&out, o);
+    } else if (cm.csv) {
+        fprintf(out.f, "parameter,unit,fwhm,first_order_fwhm,per_length,"
+                       "per_length_unit\n");
+        for (size_t i = 0; i < NITEMS; i++) {
+            if (!have[i])
+                continue;
+            int root;
+            double pl = per_length(&acc[i], lcm, &root);
+            fprintf(out.f, "%s,%s,%.8g,%.8g,%.8g,%s*%s\n", items[i].key,
+                    items[i].unit, acc[i].fwhm * items[i].scale,
+                    acc[i].linear_fwhm * items[i].scale, pl * items[i].scale,
+                    items[i].unit, root ? "cm^0.5" : "cm");
+        }
+    } else {
+        fprintf(out.f, "%s (data set %s), %s design, %.4g mm long, ", c->id,
+                set->name, qpm ? "QPM" : "birefringent", d.length_mm);
+        if (qpm)
+            fprintf(out.f, "period %.4f um, phase-matched at %.2f C\n",
+                    d.period_um, d.temp_c);
+        else
+            fprintf(out.f, "modes %s, theta %.3f deg, phi %.2f deg, %.4g C\n",
+                    d.pol, d.theta_rad / DEG, d.phi_rad / DEG, d.temp_c);
+        if (d.shg)
+            fprintf(out.f, "  SHG of %.6g um\n\n", d.waves.signal_um);
+        else
+            fprintf(out.f, "  pump %.6g um, signal %.6g um, idler %.6g um\n\n",
+                    d.waves.pump_um, d.waves.signal_um, d.waves.idler_um);
+        fprintf(out.f, "  %-26s %14s %16s %22s\n", "acceptance (FWHM)",
+                "exact", "first-order", "per length");
+        for (size_t i = 0; i < NITEMS; i++) {
+            if (!have[i])
+                continue;
+            const char *name = items[i].name;
+            if (d.shg && items[i].p == DK_TOL_SIGNAL)
+                name = "fundamental";
+            if (!acc[i].bounded) {
+                fprintf(out.f, "  %-26s %14s\n", name, "beyond search");
+                continue;
+            }
+            int root;
+            double pl = per_length(&acc[i], lcm, &root);
+            char ex[32], li[32], pls[40];
+            snprintf(ex, sizeof ex, "%.4g %s", acc[i].fwhm * items[i].scale,
+                     items[i].unit);
+            if (isfinite(acc[i].linear_fwhm))
+                snprintf(li, sizeof li, "%.4g %s",
+                         acc[i].linear_fwhm * items[i].scale, items[i].unit);
+            else
+                snprintf(li, sizeof li, "(noncritical)");
+            snprintf(pls, sizeof pls, "%.4g %s*%s", pl * items[i].scale,
+                     items[i].unit, root ? "cm^1/2" : "cm");
+            fprintf(out.f, "  %-26s %14s %16s %22s\n", name, ex, li, pls);
+        }
+        if (isfinite(sig_cm))
+            fprintf(out.f, "\n  %s width %.4g cm-1", d.shg ? "fundamental"
+                                                           : "signal",
+                    sig_cm);
+        if (isfinite(idl_nm))
+            fprintf(out.f, "; idler width %.4g nm (pump fixed)", idl_nm);
+        fprintf(out.f, "\n\n  exact: where sinc^2(dk L/2) falls to 1/2; "
+                       "first-order: 2x2.783/(L |d dk/dx|); per length: "
+                       "x L (critical) or x sqrt(L) (noncritical)\n");
+    }
+    rc = cli_out_commit(&out);
+done:
+    dk_db_free(db);
+    return rc;
+}

@@ -1,0 +1,239 @@
+/*
+ * test_tolerance.c - acceptance widths (deltak/acceptance.h,
+ * deltak/tolerance.h): the mathematics of sinc², closed forms, scaling
+ * with length, and values handbooks quote.
+ */
+#include "testutil.h"
+
+#include "deltak/crystal.h"
+#include "deltak/group.h"
+#include "deltak/material.h"
+#include "deltak/tolerance.h"
+
+#define DEG (M_PI / 180)
+#define U2 (2 * DK_SINC2_HALF_U)   /* 2.78311: |Δk| L at half maximum */
+
+static dk_db *db;
+
+static int
+setup(void **state)
+{
+    (void)state;
+    dk_error err = {0};
+    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
+}
+
+static int
+teardown(void **state)
+{
+    (void)state;
+    dk_db_free(db);
+    return 0;
+}
+
+static double
+lin(double x, void *p)
+{
+    return *(double *)p * (x - 3.0);
+}
+
+static double
+quad(double x, void *p)
+{
+    return *(double *)p * (x - 3.0) * (x - 3.0);
+}
+
+/* sinc²(u) = 1/2 at u = 1.39156; a linear Δk = a(x − x0) has the exact
+ * width 2·2.78311/(L a); a quadratic one b(x − x0)² has 2√(2.78311/(L b))
+ * (algebra of sinc², Boyd §2.3). */
+static void
+mathematics(void **state)
+{
+    (void)state;
+    assert_within(dk_sinc2(2 * DK_SINC2_HALF_U / 1000, 1000), 0.5, 0, 1e-15);
+    assert_within(dk_sinc2(0, 1000), 1, 0, 1e-15);
+    double a = 0.37, b = 0.021, L = 2500;
+    dk_acceptance acc;
+    assert_int_equal(dk_acceptance_fwhm(lin, &a, 3.0, L, 1e-3, -100, 100,
+                                        &acc, NULL),
+                     DK_OK);
+    assert_true(acc.bounded);
+    assert_within(acc.fwhm, 2 * U2 / (L * a), 1e-9, 0);
+    assert_within(acc.linear_fwhm, acc.fwhm, 1e-6, 0);
+    assert_int_equal(dk_acceptance_fwhm(quad, &b, 3.0, L, 1e-3, -100, 100,
+                                        &acc, NULL),
+                     DK_OK);
+    assert_within(acc.fwhm, 2 * sqrt(U2 / (L * b)), 1e-9, 0);
+    assert_within(acc.quadratic_fwhm, acc.fwhm, 1e-4, 0);
+    assert_true(!isfinite(acc.linear_fwhm) || acc.linear_fwhm > 1e3);
+    /* Off the peak by a little, the peak is found again. */
+    assert_int_equal(dk_acceptance_fwhm(lin, &a, 3.0005, L, 1e-3, -100, 100,
+                                        &acc, NULL),
+                     DK_OK);
+    assert_within(acc.peak, 3.0, 0, 1e-9);
+    assert_int_equal(dk_acceptance_fwhm(lin, &a, 3.0, -1, 1e-3, -100, 100,
+                                        &acc, NULL),
+                     DK_EINVAL);
+}
+
+static dk_design
+angle_design(const char *crystal, const char *set, double fund, const char *pol,
+             double temp, double length_mm)
+{
+    const dk_crystal *c = dk_db_find(db, crystal);
+    dk_design d = {0};
+    d.kind = DK_DESIGN_ANGLE;
+    d.waves = dk_waves_shg(fund);
+    d.shg = 1;
+    d.temp_c = temp;
+    d.length_mm = length_mm;
+    d.angle = (dk_angle_problem){c, dk_crystal_find_set(c, set), d.waves, 1,
+                                 temp, 0, 0};
+    dk_angle_solution sol[8];
+    int n;
+    assert_int_equal(dk_angle_solve(&d.angle, NAN, pol, sol, 8, &n, NULL),
+                     DK_OK);
+    assert_true(n >= 1);
+    int k = 0;
+    for (int i = 0; i < n; i++)
+        if (!strcmp(sol[i].plane, "XY"))
+            k = i;
+    memcpy(d.pol, sol[k].pol, 4);
+    d.theta_rad = sol[k].theta_rad;
+    d.phi_rad = sol[k].phi_rad;
+    return d;
+}
+
+static dk_design
+qpm_design(const char *crystal, double fund, double temp, double length_mm)
+{
+    const dk_crystal *c = dk_db_find(db, crystal);
+    dk_design d = {0};
+    d.kind = DK_DESIGN_QPM;
+    d.waves = dk_waves_shg(fund);
+    d.shg = 1;
+    d.temp_c = temp;
+    d.length_mm = length_mm;
+    assert_int_equal(dk_qpm_init(&d.qpm, c, &c->sets[0], NULL, 1, 0.5, 25,
+                                 NULL),
+                     DK_OK);
+    double pt;
+    assert_int_equal(dk_qpm_period(&d.qpm, &d.waves, temp, &d.period_um, &pt,
+                                   NULL),
+                     DK_OK);
+    return d;
+}
+
+static double
+width(dk_design *d, dk_tol_param p)
+{
+    dk_acceptance a;
+    dk_error err = {0};
+    if (dk_design_tolerance(d, p, &a, &err))
+        fail_msg("%s", err.msg);
+    assert_true(a.bounded);
+    /* At the operating point the curve peaks at 1. */
+    assert_within(dk_sinc2(dk_design_delta_k(d, p, a.peak),
+                           d->length_mm * 1e3),
+                  1, 0, 1e-9);
+    return a.fwhm;
+}
+
+/* BBO type-I SHG of 1064 nm: Δθ = 2·2.78311 / (L |dΔk/dθ|) with
+ * dΔk/dθ = (4π/λ) dn_e(θ)/dθ, dn_e/dθ = −(n_e(θ)³/2)(n_e⁻² − n_o⁻²) sin 2θ
+ * at the harmonic (Dmitriev et al., Handbook (1999), eq. 1.6 differentiated;
+ * hand algebra). Walk-off does not enter Δk. */
+static void
+bbo_angular_closed_form(void **state)
+{
+    (void)state;
+    dk_design d = angle_design("BBO", "Tamosauskas2018", 1.064, "ooe", 25,
+                               10);
+    const dk_crystal *c = d.angle.crystal;
+    dk_index_value vo, ve;
+    dk_material_index(c, d.angle.set, 'o', 0.532, 25, &vo, NULL);
+    dk_material_index(c, d.angle.set, 'e', 0.532, 25, &ve, NULL);
+    double th = d.theta_rad;
+    double inv = cos(th) * cos(th) / (vo.n * vo.n) +
+                 sin(th) * sin(th) / (ve.n * ve.n);
+    double nth = 1 / sqrt(inv);
+    double dn = -0.5 * nth * nth * nth *
+                (1 / (ve.n * ve.n) - 1 / (vo.n * vo.n)) * sin(2 * th);
+    double want = 2 * U2 / (1e4 * 4 * M_PI / 1.064 * fabs(dn));
+    assert_within(width(&d, DK_TOL_THETA), want, 1e-3, 0);
+    /* Handbooks quote about 0.5 mrad·cm, internal (from memory). */
+    assert_within(width(&d, DK_TOL_THETA) * 1e3, 0.5, 0, 0.1);
+}
+
+/* SHG spectral width from the group indices: dΔk/dω = (2/c)(n_g(2ω) −
+ * n_g(ω)), so Δλ = λ²·2·2.78311 / (2π L · 2|n_g(2ω) − n_g(ω)|)
+ * (standard GVM argument; hand algebra), here for congruent PPLN. */
+static void
+spectral_width_from_group_index(void **state)
+{
+    (void)state;
+    dk_design d = qpm_design("LN", 1.55, 150, 10);
+    const dk_crystal *c = d.qpm.crystal;
+    dk_index_value v1, v2;
+    dk_material_index(c, &c->sets[0], 'e', 1.55, 150, &v1, NULL);
+    dk_material_index(c, &c->sets[0], 'e', 0.775, 150, &v2, NULL);
+    double ng1 = dk_group_index(1.55, v1.n, v1.dn_dl);
+    double ng2 = dk_group_index(0.775, v2.n, v2.dn_dl);
+    double want = 1.55 * 1.55 * 2 * U2 / (2 * M_PI * 1e4 * 2 * fabs(ng2 - ng1));
+    assert_within(width(&d, DK_TOL_SIGNAL), want, 2e-3, 0);
+    /* 1550 nm SHG in 1 cm of PPLN: about 1.1 nm and 6-7 C acceptance
+     * (the usual numbers for telecom PPLN doublers; from memory). */
+    assert_within(width(&d, DK_TOL_SIGNAL) * 1e3, 1.1, 0, 0.2);
+    assert_within(width(&d, DK_TOL_TEMPERATURE), 6.5, 0, 1.5);
+}
+
+/* Critical widths scale as 1/L, noncritical ones as 1/√L. */
+static void
+length_scaling(void **state)
+{
+    (void)state;
+    dk_design a = angle_design("BBO", "Tamosauskas2018", 1.064, "ooe", 25, 5);
+    dk_design b = angle_design("BBO", "Tamosauskas2018", 1.064, "ooe", 25, 20);
+    assert_within(width(&a, DK_TOL_THETA) / width(&b, DK_TOL_THETA), 4, 1e-4,
+                  0);
+    dk_design k1 = angle_design("KTP", "KatoTakaoka2002", 1.064, "sff", 25, 5);
+    dk_design k2 = angle_design("KTP", "KatoTakaoka2002", 1.064, "sff", 25,
+                                20);
+    /* θ = 90° in the XY plane is noncritical in θ. */
+    assert_within(width(&k1, DK_TOL_THETA) / width(&k2, DK_TOL_THETA), 2,
+                  2e-3, 0);
+    assert_within(width(&k1, DK_TOL_PHI) / width(&k2, DK_TOL_PHI), 4, 1e-3, 0);
+}
+
+/* KTP type-II SHG of 1064 nm in the XY plane: ΔT·l ≈ 20-25 C·cm,
+ * Δφ·l ≈ 9-10 mrad·cm, Δθ·l^1/2 ≈ 45-55 mrad·cm^1/2 (Dmitriev et al.,
+ * Handbook (1999), KTP table; from memory, so loose). */
+static void
+ktp_handbook(void **state)
+{
+    (void)state;
+    dk_design d = angle_design("KTP", "KatoTakaoka2002", 1.064, "sff", 25,
+                               10);
+    assert_within(width(&d, DK_TOL_TEMPERATURE), 22.5, 0, 5);
+    assert_within(width(&d, DK_TOL_PHI) * 1e3, 9.5, 0, 2.5);
+    assert_within(width(&d, DK_TOL_THETA) * 1e3, 50, 0, 10);
+    dk_acceptance a;
+    assert_int_equal(dk_design_tolerance(&d, DK_TOL_PERIOD, &a, NULL),
+                     DK_EINVAL);
+    dk_design u = angle_design("BBO", "Tamosauskas2018", 1.064, "ooe", 25, 10);
+    assert_int_equal(dk_design_tolerance(&u, DK_TOL_PHI, &a, NULL),
+                     DK_EINVAL);
+}
+
+int
+main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(mathematics),
+        cmocka_unit_test(bbo_angular_closed_form),
+        cmocka_unit_test(spectral_width_from_group_index),
+        cmocka_unit_test(length_scaling),
+        cmocka_unit_test(ktp_handbook),
+    };
+    return cmocka_run_group_tests_name("tolerance", tests, setup, teardown);
+}
