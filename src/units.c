@@ -145,3 +145,31 @@ dk_parse_length(const char *text, double *length_mm, dk_error *err)
     *length_mm = mm;
     return DK_OK;
 }
+
+dk_status
+dk_parse_duration(const char *text, double *fs, dk_error *err)
+{
+    double v;
+    char unit[32];
+    if (!text || split_number_unit(text, &v, unit, sizeof unit) != 0 ||
+        !isfinite(v))
+        return dk_error_set(err, DK_EINVAL,
+                            "cannot read duration '%s': expected e.g. 30fs "
+                            "or 1.2ps",
+                            text ? text : "");
+    static const struct {
+        const char *name;
+        double fs;
+    } units[] = {{"fs", 1}, {"ps", 1e3}, {"ns", 1e6}, {"as", 1e-3}};
+    for (size_t i = 0; i < sizeof units / sizeof units[0]; i++)
+        if (strcmp(unit, units[i].name) == 0) {
+            if (!(v > 0))
+                return dk_error_set(err, DK_EINVAL,
+                                    "duration '%s' must be positive", text);
+            *fs = v * units[i].fs;
+            return DK_OK;
+        }
+    return dk_error_set(err, DK_EINVAL,
+                        "%s duration unit in '%s': write e.g. 30fs or 1.2ps",
+                        unit[0] ? "unknown" : "missing", text);
+}

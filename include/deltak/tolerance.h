@@ -56,6 +56,35 @@ typedef struct dk_design {
 } dk_design;
 
 /*
+ * dk_design_setup_qpm:
+ * Make @d a QPM design at its operating point. @d->waves, shg, temp_c
+ * and length_mm are set by the caller. With @period_um > 0 the grating
+ * is given and the temperature is solved (the root nearest d->temp_c
+ * when @near_temp, else the lowest); otherwise the period is computed
+ * at d->temp_c.
+ * Returns: DK_OK; the dk_qpm_init()/dk_qpm_period() errors; DK_ENOROOT
+ * when the period phase-matches at no temperature near the set's range;
+ * DK_EINVAL for a period with a set without temperature dependence.
+ */
+dk_status dk_design_setup_qpm(dk_design *d, const dk_crystal *c,
+                              const dk_dispersion_set *set, const char *pol,
+                              int order, double period_um, int near_temp,
+                              dk_error *err);
+
+/*
+ * dk_design_setup_angle:
+ * Make @d a birefringent design: the phase-matching solution of modes
+ * @pol (NULL: any) and type @type ("I", "II" or NULL) nearest
+ * @theta_rad (NAN: the first found), at d->temp_c.
+ * Returns: DK_OK; DK_ENOROOT when nothing phase-matches; DK_EINVAL for
+ * an isotropic crystal.
+ */
+dk_status dk_design_setup_angle(dk_design *d, const dk_crystal *c,
+                                const dk_dispersion_set *set, const char *pol,
+                                const char *type, double theta_rad,
+                                dk_error *err);
+
+/*
  * dk_design_delta_k:
  * Δk (rad/µm) of @d with parameter @p set to @x and everything else at
  * the operating point. Returns NAN where undefined or not applicable.

@@ -47,4 +47,13 @@ dk_status dk_parse_temperature(const char *text, double *temp_c,
  */
 dk_status dk_parse_length(const char *text, double *length_mm, dk_error *err);
 
+/*
+ * dk_parse_duration:
+ * @text: a pulse duration with unit: "30fs", "1.2ps", "10ns"
+ * @fs: out, duration in femtoseconds, > 0
+ *
+ * Returns: DK_OK or DK_EINVAL (a bare number is an error).
+ */
+dk_status dk_parse_duration(const char *text, double *fs, dk_error *err);
+
 #endif /* DK_UNITS_H */

@@ -19,6 +19,7 @@ int cmd_chip(int argc, char **argv);
 int cmd_crystals(int argc, char **argv);
 int cmd_index(int argc, char **argv);
 int cmd_period(int argc, char **argv);
+int cmd_pulse(int argc, char **argv);
 int cmd_tolerance(int argc, char **argv);
 
 #endif /* DK_CLI_COMMANDS_H */

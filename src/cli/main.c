@@ -26,6 +26,8 @@ static const struct cli_cmd commands[] = {
      "refractive index, group index, GVD and TOD of each axis"},
     {"period", cmd_period,
      "QPM poling period; or, for a period, temperature or wavelengths"},
+    {"pulse", cmd_pulse,
+     "group velocities, GVM, GVD, pulse-splitting and walk-off lengths"},
     {"tolerance", cmd_tolerance,
      "spectral, thermal and angular acceptance (FWHM) and sinc^2 curves"},
 };

@@ -57,80 +57,6 @@ static const item items[] = {
 };
 #define NITEMS (sizeof items / sizeof items[0])
 
-/* The operating point of a QPM design; 0 or CLI_FAIL after printing. */
-static int
-setup_qpm(dk_design *d, const dk_crystal *c, const dk_dispersion_set *set,
-          const char *pol, int order, double period_um, int have_temp)
-{
-    dk_error err = {0};
-    d->kind = DK_DESIGN_QPM;
-    if (dk_qpm_init(&d->qpm, c, set, pol, order, 0.5, 25, &err))
-        return cli_error("%s", err.msg);
-    if (period_um > 0) {
-        const double *r = set->temp_form == DK_TEMP_NONE
-                              ? set->thermo.temperature_range_c
-                              : set->temperature_range_c;
-        double lo = fmin(r[0], have_temp ? d->temp_c - 50 : r[0]) - 50;
-        double hi = fmax(r[1], have_temp ? d->temp_c + 50 : r[1]) + 50;
-        double t[16];
-        int n;
-        if (!dk_set_has_temperature(set))
-            return cli_error("data set '%s' has no temperature dependence: "
-                             "give --temp without --period instead",
-                             set->name);
-        if (dk_qpm_solve_temperature(&d->qpm, &d->waves, period_um, lo, hi,
-                                     t, 16, &n, &err))
-            return cli_error("%s", err.msg);
-        if (n == 0)
-            return cli_error("the %.6g um period phase-matches at no "
-                             "temperature between %.4g and %.4g C",
-                             period_um, lo, hi);
-        int best = 0;
-        for (int i = 1; i < n; i++)
-            if (have_temp && fabs(t[i] - d->temp_c) < fabs(t[best] - d->temp_c))
-                best = i;
-        d->temp_c = t[best];
-        d->period_um = period_um;
-        return 0;
-    }
-    double pt;
-    if (dk_qpm_period(&d->qpm, &d->waves, d->temp_c, &d->period_um, &pt,
-                      &err))
-        return cli_error("%s", err.msg);
-    return 0;
-}
-
-static int
-setup_angle(dk_design *d, const dk_crystal *c, const dk_dispersion_set *set,
-            const char *pol, const char *type, double theta)
-{
-    dk_error err = {0};
-    d->kind = DK_DESIGN_ANGLE;
-    dk_angle_problem pb = {c, set, d->waves, d->shg, d->temp_c, 0, 0};
-    dk_angle_solution sol[DK_ANGLE_MAX_SOL];
-    int n;
-    if (dk_angle_solve(&pb, NAN, pol, sol, DK_ANGLE_MAX_SOL, &n, &err))
-        return cli_error("%s", err.msg);
-    int best = -1;
-    for (int i = 0; i < n; i++) {
-        if (type && strcmp(sol[i].type, type))
-            continue;
-        if (best < 0 || (isfinite(theta) &&
-                         fabs(sol[i].theta_rad - theta) <
-                             fabs(sol[best].theta_rad - theta)))
-            best = i;
-    }
-    if (best < 0)
-        return cli_error("%s does not phase-match this process%s%s%s", c->id,
-                         type ? " in type " : "", type ? type : "",
-                         pol ? " with the given --pol" : "");
-    d->angle = pb;
-    memcpy(d->pol, sol[best].pol, 4);
-    d->theta_rad = sol[best].theta_rad;
-    d->phi_rad = sol[best].phi_rad;
-    return 0;
-}
-
 /* Per-length product: ×L for critical, ×√L for noncritical widths. */
 static double
 per_length(const dk_acceptance *a, double length_cm, int *root)
@@ -256,9 +182,12 @@ cmd_tolerance(int argc, char **argv)
         d.temp_c = set->reference_temperature_c;
     int qpm = period_um > 0 ||
               (c->poling != DK_POLING_NONE && !type && !theta_s);
-    if (qpm ? setup_qpm(&d, c, set, pol, order, period_um, temp != NULL)
-            : setup_angle(&d, c, set, pol, type, theta))
+    if (qpm ? dk_design_setup_qpm(&d, c, set, pol, order, period_um,
+                                  temp != NULL, &err)
+            : dk_design_setup_angle(&d, c, set, pol, type, theta, &err)) {
+        cli_error("%s", err.msg);
         goto done;
+    }
 
     cli_out out;
     if (cli_out_open(&out))

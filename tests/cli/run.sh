@@ -116,6 +116,11 @@ expect tol-bad-curve 2 "must be one of" -- tolerance --crystal MgO:LN --fundamen
 json_has tol-json "length_mm temperature_fwhm_C spectral_fwhm_nm.signal spectral_fwhm_nm.idler spectral_fwhm_nm.pump" -- tolerance --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --length 20mm --json
 json_has tol-json-angle "length_mm temperature_fwhm_C angular_fwhm_mrad.theta angular_fwhm_mrad.phi" -- tolerance --crystal KTP --fundamental 1064nm --type II --length 10mm --json
 
+expect pulse-bbo 0 'fund.-harmonic +-19[0-9]\.' -- pulse --crystal BBO --fundamental 800nm --type I --duration 30fs
+expect pulse-qpm 0 'QPM design' -- pulse --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --waist 50um
+expect pulse-bad-duration 2 'duration' -- pulse --crystal BBO --fundamental 800nm --type I --duration 30
+json_has pulse-json "group_index.signal group_index.idler group_index.pump gvm_fs_per_mm.signal_pump gvm_fs_per_mm.idler_pump gvm_fs_per_mm.signal_idler gvd_fs2_per_mm.pump splitting_length_mm.signal_pump" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --json
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"
