@@ -279,6 +279,24 @@ dk_angle_solve(dk_angle_problem *pb, double phi_rad, const char *only_pol,
     return DK_OK;
 }
 
+dk_status
+dk_angle_curve(dk_angle_problem *pb, const char pol[3], int nphi, int maxper,
+               double *theta_rad, int *count, dk_error *err)
+{
+    if (nphi < 2 || maxper < 1)
+        return dk_error_set(err, DK_EINVAL, "the curve needs at least two "
+                                            "azimuths");
+    for (int k = 0; k < nphi; k++) {
+        scan_probe sp = {pb, pol, 0, M_PI / 2 * k / (nphi - 1)};
+        dk_status s = dk_roots_all(dk_along, &sp, 0, M_PI / 2, ANGLE_SCAN / 2,
+                                   ANGLE_TOL, theta_rad + k * maxper, maxper,
+                                   &count[k], err);
+        if (s)
+            return s;
+    }
+    return DK_OK;
+}
+
 typedef struct temp_probe {
     dk_angle_problem *pb;
     const char *pol;

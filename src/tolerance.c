@@ -7,7 +7,9 @@
  * ±0.5 rad, ±20 % in period) but limited to where the model is defined.
  */
 #include <math.h>
+#include <string.h>
 
+#include "deltak/material.h"
 #include "deltak/tolerance.h"
 
 int
@@ -153,4 +155,28 @@ dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
         out->peak = 0;
     }
     return DK_OK;
+}
+
+double
+dk_design_input_index(dk_design *d)
+{
+    double lam = d->shg ? d->waves.signal_um : d->waves.pump_um;
+    if (d->kind == DK_DESIGN_QPM) {
+        dk_index_value v;
+        char ax = d->qpm.pol[d->shg ? 0 : 2];
+        if (dk_material_index(d->qpm.crystal, d->qpm.set, ax, lam, d->temp_c,
+                              &v, NULL))
+            return NAN;
+        return v.n;
+    }
+    dk_angle_solution sol = {0};
+    memcpy(sol.pol, d->pol, 4);
+    sol.theta_rad = d->theta_rad;
+    sol.phi_rad = d->phi_rad;
+    dk_angle_problem pb = d->angle;
+    pb.waves = d->waves;
+    pb.temp_c = d->temp_c;
+    if (dk_angle_describe(&pb, &sol, NULL))
+        return NAN;
+    return sol.n[d->shg ? 0 : 2];
 }

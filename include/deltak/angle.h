@@ -79,6 +79,18 @@ dk_status dk_angle_describe(dk_angle_problem *pb, dk_angle_solution *sol,
                             dk_error *err);
 
 /*
+ * dk_angle_curve:
+ * The curve of phase-matching directions of modes @pol in a biaxial (or
+ * uniaxial) crystal: for each of @nphi azimuths φ_k = k·90°/(nphi − 1)
+ * the polar angles θ in [0, 90°] where Δk = 0. @theta_rad[k·maxper + j]
+ * holds the j-th root of φ_k and @count[k] how many there are.
+ * Returns: DK_OK or DK_EINVAL (nphi < 2).
+ */
+dk_status dk_angle_curve(dk_angle_problem *pb, const char pol[3], int nphi,
+                         int maxper, double *theta_rad, int *count,
+                         dk_error *err);
+
+/*
  * dk_angle_best_phi:
  * The azimuth maximising |d_eff| of @sol at its θ (uniaxial crystals,
  * where Δk does not depend on φ); also sets sol->phi_rad and describes

@@ -108,6 +108,15 @@ int dk_design_applies(const dk_design *d, dk_tol_param p);
 dk_status dk_design_tolerance(dk_design *d, dk_tol_param p,
                               dk_acceptance *out, dk_error *err);
 
+/*
+ * dk_design_input_index:
+ * The index of the wave that enters the crystal (the fundamental for SHG,
+ * else the pump) at the operating point: external angular widths are
+ * about this times the internal ones (Snell's law, small angles, normal
+ * incidence). Returns NAN on error.
+ */
+double dk_design_input_index(dk_design *d);
+
 /* The parameter value at the operating point. */
 double dk_design_operating_value(const dk_design *d, dk_tol_param p);
 

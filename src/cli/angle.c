@@ -32,6 +32,8 @@ static const char *const angle_usage[] = {
     "  --temp-range <lo:hi> where --ncpm looks (default: the set's range)",
     "  --cut <deg>          crystal cut angle theta: also give external "
     "incidence angles",
+    "  --curve              CSV of the phase-matching directions theta(phi), "
+    "phi 0-90 deg",
     NULL};
 
 #define DEG (M_PI / 180)
@@ -83,6 +85,19 @@ print_solution(FILE *f, const dk_angle_solution *s, int shg, double ext)
     fputc('\n', f);
 }
 
+/* Mode combinations not worth listing: all in one mode, the second
+ * ordering of a type-II SHG pair (labels @l: slow/o first), or not the
+ * one asked for. */
+static int
+skip_combo(const char p3[4], const char *l, int shg, const char *pol)
+{
+    if (p3[0] == p3[1] && p3[1] == p3[2])
+        return 1;
+    if (shg && p3[0] == l[1] && p3[1] == l[0])
+        return 1;
+    return pol && strcmp(pol, p3) != 0;
+}
+
 /* The input wave whose index sets the external angle. */
 static double
 input_index(const dk_angle_solution *s, int shg)
@@ -107,13 +122,14 @@ cmd_angle(int argc, char **argv)
         {"noncollinear", required_argument, NULL, 'N'},
         {"magic", no_argument, NULL, 'M'},
         {"ncpm", no_argument, NULL, 'C'},
+        {"curve", no_argument, NULL, 'K'},
         {"cut", required_argument, NULL, 'X'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_wave_args wa = {0};
     const char *temp = NULL, *type = NULL, *pol = NULL, *phi_s = NULL,
                *alpha_s = NULL, *cut_s = NULL, *trange = NULL;
-    int magic = 0, ncpm = 0, ch, rc;
+    int magic = 0, ncpm = 0, curve = 0, ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
@@ -132,6 +148,7 @@ cmd_angle(int argc, char **argv)
         case 'N': alpha_s = optarg; break;
         case 'M': magic = 1; break;
         case 'C': ncpm = 1; break;
+        case 'K': curve = 1; break;
         case 'X': cut_s = optarg; break;
         case 'h': cli_print_usage(stdout, angle_usage); return 0;
         default: return cli_bad_option(argv, angle_usage);
@@ -190,6 +207,32 @@ cmd_angle(int argc, char **argv)
     cli_out out;
     if (cli_out_open(&out))
         goto done;
+    if (curve) {
+        pb.set = only ? only : &pb.crystal->sets[0];
+        if (!temp && !dk_set_has_temperature(pb.set))
+            pb.temp_c = pb.set->reference_temperature_c;
+        const char *l = pb.crystal->optical_class == DK_BIAXIAL ? "sf" : "oe";
+        enum { NPHI = 91, PER = 4 };
+        double th[NPHI * PER];
+        int cnt[NPHI];
+        fprintf(out.f, "pol,phi_deg,theta_deg\n");
+        for (int c3 = 0; c3 < 8; c3++) {
+            char p3[4] = {l[(c3 >> 2) & 1], l[(c3 >> 1) & 1], l[c3 & 1], 0};
+            if (skip_combo(p3, l, pb.shg, pol))
+                continue;
+            if (dk_angle_curve(&pb, p3, NPHI, PER, th, cnt, &err)) {
+                cli_error("%s", err.msg);
+                cli_out_discard(&out);
+                goto done;
+            }
+            for (int k = 0; k < NPHI; k++)
+                for (int j = 0; j < cnt[k]; j++)
+                    fprintf(out.f, "%s,%.4f,%.6f\n", p3, 90.0 * k / (NPHI - 1),
+                            th[k * PER + j] / DEG);
+        }
+        rc = cli_out_commit(&out);
+        goto done;
+    }
     json_object *root = json_object_new_object();
     json_object *sets_json = json_object_new_array();
     json_object_object_add(root, "crystal",
@@ -201,6 +244,9 @@ cmd_angle(int argc, char **argv)
     json_object_object_add(root, "wavelengths_um", wl);
     json_object_object_add(root, "temperature_C", cli_json_num(pb.temp_c));
     int total = 0;
+    char spread_pol[4] = "";
+    double spread_lo = INFINITY, spread_hi = -INFINITY;
+    int spread_n = 0;
     for (int si = 0; si < pb.crystal->nsets; si++) {
         pb.set = &pb.crystal->sets[si];
         if (only && pb.set != only)
@@ -262,8 +308,7 @@ cmd_angle(int argc, char **argv)
                 for (int c = 0; c < 8; c++) {
                     char p3[4] = {l[(c >> 2) & 1], l[(c >> 1) & 1], l[c & 1],
                                   0};
-                    if ((p3[0] == p3[1] && p3[1] == p3[2]) ||
-                        (pb.shg && p3[0] > p3[1]) || (pol && strcmp(pol, p3)))
+                    if (skip_combo(p3, l, pb.shg, pol))
                         continue;
                     double t[8];
                     int nt;
@@ -364,6 +409,17 @@ cmd_angle(int argc, char **argv)
                                            cli_json_num(pb.alpha_rad / DEG));
                 json_object_array_add(sj, o);
             }
+            if (!ncpm && !magic && (!spread_pol[0] ||
+                                    !strcmp(spread_pol, sol[k].pol))) {
+                double a = strcmp(sol[k].plane, "XY") ? sol[k].theta_rad
+                                                      : sol[k].phi_rad;
+                if (!spread_pol[0] || shown == 0) {
+                    memcpy(spread_pol, sol[k].pol, 4);
+                    spread_lo = fmin(spread_lo, a / DEG);
+                    spread_hi = fmax(spread_hi, a / DEG);
+                    spread_n++;
+                }
+            }
             shown++;
         }
         if (!shown && !cm.json)
@@ -388,6 +444,13 @@ cmd_angle(int argc, char **argv)
         if (magic)
             pb.alpha_rad = 0;
     }
+    if (!cm.json && cm.all && spread_n > 1)
+        fprintf(out.f, "\nspread over %d data sets (modes %s, first "
+                       "solution): %.3f deg\n",
+                spread_n, spread_pol, spread_hi - spread_lo);
+    if (cm.json && cm.all && spread_n > 1)
+        json_object_object_add(root, "spread_deg",
+                               cli_json_num(spread_hi - spread_lo));
     if (!cm.json && pb.crystal->has_nonlinear)
         fprintf(out.f, "\nangles internal, in degrees (theta from Z, phi from "
                        "X); d_eff in pm/V%s\n",

@@ -223,6 +223,7 @@ cmd_tolerance(int argc, char **argv)
                    d.temp_c);
     cli_warn_caution(c, d.temp_c);
     double lcm = d.length_mm / 10;
+    double nin = dk_design_input_index(&d);
     /* Idler width from the signal edges (energy conservation). */
     double idl_nm = NAN, sig_cm = NAN;
     if (have[1] && acc[1].bounded && !d.shg) {
@@ -289,6 +290,12 @@ cmd_tolerance(int argc, char **argv)
             json_object_object_add(o, "signal_fwhm_cm-1",
                                    cli_json_num(sig_cm));
         json_object_object_add(o, "angular_fwhm_mrad", ang);
+        json_object *ext = json_object_new_object();
+        for (size_t i = 0; i < NITEMS; i++)
+            if (have[i] && !strcmp(items[i].unit, "mrad") && acc[i].bounded)
+                json_object_object_add(ext, items[i].key,
+                                       cli_json_num(acc[i].fwhm * 1e3 * nin));
+        json_object_object_add(o, "external_angular_fwhm_mrad", ext);
         json_object_object_add(o, "linear_estimates", lin);
         cli_warnings_to_json(o);
         cli_out_json(&out, o);
@@ -349,6 +356,12 @@ cmd_tolerance(int argc, char **argv)
             fprintf(out.f, "\n  %s width %.4g cm-1", d.shg ? "fundamental"
                                                            : "signal",
                     sig_cm);
+        for (size_t i = 0; i < NITEMS; i++)
+            if (have[i] && !strcmp(items[i].unit, "mrad") && acc[i].bounded &&
+                isfinite(nin))
+                fprintf(out.f, "\n  %s outside the crystal: about %.4g mrad "
+                               "(x n = %.4f, normal incidence)",
+                        items[i].key, acc[i].fwhm * 1e3 * nin, nin);
         if (isfinite(idl_nm))
             fprintf(out.f, "; idler width %.4g nm (pump fixed)", idl_nm);
         fprintf(out.f, "\n\n  exact: where sinc^2(dk L/2) falls to 1/2; "
