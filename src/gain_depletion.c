@@ -9,7 +9,7 @@
  *   dA1/dz = i (2 d ω1 / n1 c) A3 A2* e^{iΔkz},
  *   dA2/dz = i (2 d ω2 / n2 c) A3 A1* e^{iΔkz},
  *   dA3/dz = i (2 d ω3 / n3 c) A1 A2 e^{−iΔkz}
- * (Armstrong et al. 1962, §2; Boyd §2.2). Scaling each amplitude to the
+ * (Armstrong et al. 1962; Boyd §2.2–2.3). Scaling each amplitude to the
  * photon flux, a_j = A_j (2 n_j ε0 c / ħω_j)^½ so that |a_j|² = I_j / ħω_j,
  * makes the coupling the same for all three waves:
  *   da1/dz = iK a3 a2* e^{iΔkz},  da2/dz = iK a3 a1* e^{iΔkz},
@@ -28,8 +28,8 @@
  * in phase: the three-wave system then stays symmetric (a1 = a2) and
  * reproduces the degenerate equations dA_ω/dz = i(2dω/n_ω c) A_2ω A_ω*
  * e^{iΔkz}, dA_2ω/dz = i(2dω/n_2ω c) A_ω² e^{−iΔkz}; at Δk = 0 the
- * harmonic grows as I_2ω/I_ω(0) = tanh²(Γ_SH z) (Armstrong et al. 1962,
- * §4), Γ_SH² the low-conversion η per unit length squared.
+ * harmonic grows as I_2ω/I_ω(0) = tanh²(Γ_SH z) (Armstrong et al.
+ * 1962), Γ_SH² the low-conversion η per unit length squared.
  *
  * Valid: plane waves, no absorption, no group-velocity effects, Δk
  * constant along z; 0 ≤ z ≤ 1e6 mm. Units as in deltak/gain.h.
@@ -39,7 +39,9 @@
  *     "Interactions between light waves in a nonlinear dielectric",
  *     Phys. Rev. 127, 1918–1939 (1962) (coupled equations, Manley–Rowe
  *     integrals, tanh² and Jacobi elliptic solutions for Δk = 0).
- *   R. W. Boyd, Nonlinear Optics, 3rd ed., Academic Press (2008), §2.2.
+ *   R. W. Boyd, Nonlinear Optics, 3rd ed., Academic Press (2008), §2.2–2.3
+ *     (coupled-amplitude equations) and §2.6 (Manley–Rowe); section
+ *     numbers from memory.
  *   P. J. Prince and J. R. Dormand, "High order embedded Runge-Kutta
  *     formulae", J. Comput. Appl. Math. 7, 67–75 (1981)
  *     (gsl_odeiv2_step_rk8pd).

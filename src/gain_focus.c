@@ -37,7 +37,7 @@
  * π/ξ) picks the best point, then GSL's Brent minimiser on −h refines it.
  * Optimum focusing: a 16-point scan of ln ξ over [ln 0.5, ln 10], then
  * Brent in ln ξ on −h_m. The B = 0 optimum, ξ = 2.84, h = 1.068, σ = 0.57,
- * is reproduced (Boyd & Kleinman 1968, §3); for B ≫ 1 the integral
+ * is reproduced (Boyd & Kleinman 1968); for B ≫ 1 the integral
  * reduces to h ≈ (√π/2) atan(ξ) / (B √ξ) (K confines u to ≲ √ξ/B, where
  * F(u) ≈ F(0) = 2 atan ξ), whose maximum lies at ξ = 1.392.
  *
@@ -46,8 +46,9 @@
  *
  * References:
  *   G. D. Boyd and D. A. Kleinman, "Parametric interaction of focused
- *     Gaussian light beams", J. Appl. Phys. 39, 3597–3639 (1968), §2
- *     (H and h, B = ρ(l k1)^½/2, ξ = l/b) and §3 (h_m, optimum focusing).
+ *     Gaussian light beams", J. Appl. Phys. 39, 3597–3639 (1968)
+ *     (H and h, B = ρ(l k1)^½/2, ξ = l/b; h_m and optimum focusing; the
+ *     paper's section and equation numbers are not quoted here).
  *   R. Piessens, E. de Doncker-Kapenga, C. Überhuber, D. Kahaner,
  *     QUADPACK, Springer (1983) (QAG, QAWO), as in the GSL manual,
  *     "Numerical Integration".

@@ -7,12 +7,12 @@
  *   dA1/dz = i (2 d_eff ω1 / n1 c) A3 A2* exp(iΔkz),
  *   dA2/dz = i (2 d_eff ω2 / n2 c) A3 A1* exp(iΔkz),
  *   dA3/dz = i (2 d_eff ω3 / n3 c) A1 A2 exp(−iΔkz),   Δk = k3 − k1 − k2
- * (Boyd, §2.2 and §2.9). With the pump A3 undepleted and A2(0) = 0 they
+ * (Boyd §2.2–2.3 and §2.9). With the pump A3 undepleted and A2(0) = 0 they
  * are linear; A1 grows as cosh/sinh of gz with
  *   g² = Γ² − (Δk/2)²,  Γ² = (2 d ω1/n1 c)(2 d ω2/n2 c)|A3|²
  *      = 8π² d_eff² I3 / (ε0 c n1 n2 n3 λ1 λ2),
  * and I1(L)/I1(0) = 1 + (Γ/g)² sinh²(gL) (Boyd §2.9; Cerullo & De
- * Silvestri 2003, §II). The form sinh(gL)/g is even in g, hence entire in
+ * Silvestri 2003). The form sinh(gL)/g is even in g, hence entire in
  * g²: for g² < 0 it is sin(|g|L)/|g|, at g = 0 it is L; it is evaluated in
  * that form so no complex arithmetic is needed.
  *
@@ -20,8 +20,9 @@
  * G(Δk) ≈ G(0) exp(−Δk² L / 4Γ); half gain at |Δk| = 2 (ln2 Γ/L)^½. To
  * first order in a signal detuning Δω (idler −Δω), Δk = (1/v_gi −
  * 1/v_gs) Δω, so the FWHM is Δν = (2√ln2/π)(Γ/L)^½ / |1/v_gs − 1/v_gi|
- * (the expression given by Cerullo & De Silvestri 2003, §II; derived as
- * above). With Γ/L in 1/mm² and GVM in fs/mm this is in 1/fs = 1000 THz.
+ * (the expression given by Cerullo & De Silvestri 2003, equation
+ * number not quoted; derived as above). With Γ/L in 1/mm² and GVM in
+ * fs/mm this is in 1/fs = 1000 THz.
  * The exact half-width of G − 1 in Δk is found by Brent root finding on
  * the main lobe, where G − 1 decreases monotonically from Δk = 0 to its
  * first zero at Δk/2 = (Γ² + (π/L)²)^½.
@@ -32,20 +33,24 @@
  * the same with the idler as output gives DFG. For SHG of one beam the
  * driving polarisation is ε0 χ(2) A1² (no factor 2), which gives the
  * familiar η = 8π² d² L² I_ω / (ε0 c n_ω² n_2ω λ_ω²) sinc²(ΔkL/2) (Fejer
- * et al. 1992, §II; equivalently the SFG result with I1 = I2 = I_ω/2).
+ * et al. 1992, their opening plane-wave expression; equivalently the
+ * SFG result with I1 = I2 = I_ω/2).
  *
  * Units at the interface: d pm/V, I GW/cm², λ µm, L mm, Δk rad/mm, Γ
  * 1/mm. Internally SI; the factors are the named conversions below.
  *
  * References:
- *   R. W. Boyd, Nonlinear Optics, 3rd ed., Academic Press (2008), §2.2
- *     (coupled-amplitude equations) and §2.9 (parametric amplification).
+ *   R. W. Boyd, Nonlinear Optics, 3rd ed., Academic Press (2008), §2.2–2.3
+ *     (coupled-amplitude equations) and §2.9 (difference-frequency
+ *     generation and parametric amplification); section numbers from
+ *     memory.
  *   G. Cerullo and S. De Silvestri, "Ultrafast optical parametric
- *     amplifiers", Rev. Sci. Instrum. 74, 1–18 (2003), §II (gain
- *     coefficient Γ and gain bandwidth).
+ *     amplifiers", Rev. Sci. Instrum. 74, 1–18 (2003) (the gain
+ *     coefficient Γ and the gain bandwidth of a collinear OPA).
  *   M. M. Fejer, G. A. Magel, D. H. Jundt, R. L. Byer, "Quasi-phase-
  *     matched second harmonic generation: tuning and tolerances", IEEE J.
- *     Quantum Electron. 28, 2631–2654 (1992), §II (low-conversion SHG).
+ *     Quantum Electron. 28, 2631–2654 (1992) (plane-wave low-conversion
+ *     SHG).
  */
 #include <math.h>
 

@@ -16,7 +16,7 @@
  *
  * Conventions shared by all three:
  *   - Fields E_j = A_j exp(i(k_j z − ω_j t)) + c.c., intensity
- *     I_j = 2 n_j ε0 c |A_j|² (Boyd, Nonlinear Optics, 3rd ed., §2.2).
+ *     I_j = 2 n_j ε0 c |A_j|² (Boyd, Nonlinear Optics, 3rd ed., §2.2–2.3).
  *   - The waves are numbered 1, 2, 3 with ω3 = ω1 + ω2; for an OPA 1 is
  *     the signal, 2 the idler, 3 the pump; Δk = k3 − k1 − k2, the same
  *     sign as the material mismatch k_p − k_s − k_i of deltak/qpm.h.
@@ -177,14 +177,15 @@ dk_status dk_mixing_intensity_gw_per_cm2(double deff_pm_per_v, double n_a,
  *   h(σ, ξ, B) = 1/(4ξ) ∫∫_{−ξ}^{ξ} dτ dτ'
  *       exp(iσ(τ−τ') − B²(τ−τ')²/ξ) / ((1 + iτ)(1 − iτ')),
  * which is real. h → ξ for ξ ≪ 1 (weak focusing, B²ξ ≪ 1); for B = 0
- * its maximum over σ and ξ is 1.068 at ξ = 2.84, σ = 0.57.
+ * its maximum over σ and ξ is 1.068 at ξ = 2.84, σ = 0.57. Quadrature
+ * target: 1e-11 relative or 1e-13·min(1, ξ) absolute, the larger.
  * @sigma: σ = b Δk / 2 (b the confocal parameter), finite, |σ| ≤ 1e4
  * @xi: focusing parameter ξ = L/b, 1e-6 ≤ ξ ≤ 1e3
  * @walkoff_b: walk-off parameter B (dk_bk_walkoff_b), 0 ≤ B ≤ 1e3
  * @h: out, h ≥ 0
  *
  * Returns: DK_OK; DK_EINVAL for an argument outside its range;
- * DK_ENOCONV if the quadrature fails to reach its tolerance.
+ * DK_ENOCONV if the quadrature fails to reach its tolerance; DK_ENOMEM.
  */
 dk_status dk_bk_h(double sigma, double xi, double walkoff_b, double *h,
                   dk_error *err);
@@ -200,7 +201,8 @@ dk_status dk_bk_h(double sigma, double xi, double walkoff_b, double *h,
  * @h_max: out, h_m
  * @sigma_max: out, σ_m; may be NULL
  *
- * Returns: DK_OK; DK_EINVAL; DK_ENOCONV (quadrature or minimiser).
+ * Returns: DK_OK; DK_EINVAL; DK_ENOCONV (quadrature or minimiser, or
+ * the maximum at the edge of the scanned σ range); DK_ENOMEM.
  */
 dk_status dk_bk_h_max(double xi, double walkoff_b, double *h_max,
                       double *sigma_max, dk_error *err);
@@ -215,7 +217,8 @@ dk_status dk_bk_h_max(double xi, double walkoff_b, double *h_max,
  * @h_opt: out, h_mm = h_m(ξ_m, B)
  * @sigma_opt: out, σ_m at ξ_m; may be NULL
  *
- * Returns: DK_OK; DK_EINVAL; DK_ENOCONV.
+ * Returns: DK_OK; DK_EINVAL; DK_ENOCONV (as dk_bk_h_max, or the optimum
+ * at the edge of the scanned ξ range); DK_ENOMEM.
  */
 dk_status dk_bk_optimum(double walkoff_b, double *xi_opt, double *h_opt,
                         double *sigma_opt, dk_error *err);
