@@ -173,3 +173,47 @@ dk_parse_duration(const char *text, double *fs, dk_error *err)
                         "%s duration unit in '%s': write e.g. 30fs or 1.2ps",
                         unit[0] ? "unknown" : "missing", text);
 }
+
+/* A number and one of @n units with their scale factors. */
+static dk_status
+parse_scaled(const char *text, const char *what, const char *example,
+             const char *const names[], const double scale[], int n,
+             double *out, dk_error *err)
+{
+    double v;
+    char unit[32];
+    if (!text || split_number_unit(text, &v, unit, sizeof unit) != 0 ||
+        !isfinite(v) || v < 0)
+        return dk_error_set(err, DK_EINVAL,
+                            "cannot read %s '%s': expected e.g. %s", what,
+                            text ? text : "", example);
+    for (int i = 0; i < n; i++)
+        if (strcmp(unit, names[i]) == 0) {
+            *out = v * scale[i];
+            return DK_OK;
+        }
+    return dk_error_set(err, DK_EINVAL, "%s unit in %s '%s': write e.g. %s",
+                        unit[0] ? "unknown" : "missing", what, text, example);
+}
+
+dk_status
+dk_parse_intensity(const char *text, double *gw_per_cm2, dk_error *err)
+{
+    static const char *const names[] = {
+        "GW/cm2", "GW/cm^2", "GW/cm²", "MW/cm2", "MW/cm^2", "MW/cm²",
+        "kW/cm2", "kW/cm^2", "kW/cm²", "W/cm2", "W/cm^2", "W/cm²",
+        "TW/cm2", "TW/cm^2", "TW/cm²"};
+    static const double scale[] = {1, 1, 1, 1e-3, 1e-3, 1e-3, 1e-6, 1e-6,
+                                   1e-6, 1e-9, 1e-9, 1e-9, 1e3, 1e3, 1e3};
+    return parse_scaled(text, "intensity", "5GW/cm2 or 500MW/cm2", names,
+                        scale, 15, gw_per_cm2, err);
+}
+
+dk_status
+dk_parse_power(const char *text, double *watts, dk_error *err)
+{
+    static const char *const names[] = {"W", "mW", "kW", "uW", "µW", "MW"};
+    static const double scale[] = {1, 1e-3, 1e3, 1e-6, 1e-6, 1e6};
+    return parse_scaled(text, "power", "2W or 500mW", names, scale, 6, watts,
+                        err);
+}

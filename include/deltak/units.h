@@ -56,4 +56,21 @@ dk_status dk_parse_length(const char *text, double *length_mm, dk_error *err);
  */
 dk_status dk_parse_duration(const char *text, double *fs, dk_error *err);
 
+/*
+ * dk_parse_intensity:
+ * @text: "5GW/cm2", "500MW/cm2", "2e9W/cm2" ("cm^2" and "cm²" too)
+ * @gw_per_cm2: out, ≥ 0
+ * Returns: DK_OK or DK_EINVAL (a bare number is an error).
+ */
+dk_status dk_parse_intensity(const char *text, double *gw_per_cm2,
+                             dk_error *err);
+
+/*
+ * dk_parse_power:
+ * @text: "2W", "500mW", "1.5kW"
+ * @watts: out, ≥ 0
+ * Returns: DK_OK or DK_EINVAL.
+ */
+dk_status dk_parse_power(const char *text, double *watts, dk_error *err);
+
 #endif /* DK_UNITS_H */

@@ -17,9 +17,11 @@
 int cmd_angle(int argc, char **argv);
 int cmd_chip(int argc, char **argv);
 int cmd_crystals(int argc, char **argv);
+int cmd_gain(int argc, char **argv);
 int cmd_index(int argc, char **argv);
 int cmd_period(int argc, char **argv);
 int cmd_pulse(int argc, char **argv);
+int cmd_sweep(int argc, char **argv);
 int cmd_tolerance(int argc, char **argv);
 
 #endif /* DK_CLI_COMMANDS_H */

@@ -121,6 +121,36 @@ expect pulse-qpm 0 'QPM design' -- pulse --crystal MgO:LN --pump 1064nm --idler 
 expect pulse-bad-duration 2 'duration' -- pulse --crystal BBO --fundamental 800nm --type I --duration 30
 json_has pulse-json "group_index.signal group_index.idler group_index.pump gvm_fs_per_mm.signal_pump gvm_fs_per_mm.idler_pump gvm_fs_per_mm.signal_idler gvd_fs2_per_mm.pump splitting_length_mm.signal_pump" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --json
 
+expect gain-opa 0 'small-signal gain at phase matching' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2
+expect gain-shg-focus 0 'Boyd-Kleinman' -- gain --crystal BBO --fundamental 1064nm --type I --length 10mm --power 1W
+expect gain-depletion 0 'with pump depletion' -- gain --crystal MgO:LN --fundamental 1064nm --length 20mm --intensity 0.01GW/cm2 --depletion
+expect gain-spectrum 0 '^signal_um,idler_um,gain' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2 --spectrum
+expect gain-no-intensity 2 'intensity' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm
+expect gain-bad-intensity 2 'intensity' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 5
+expect gain-damage 0 'damage threshold' -- gain --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --length 10mm --intensity 2GW/cm2
+json_has gain-json "deff_pm_per_V gamma_per_mm gain gain_fwhm.signal_nm" -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2 --json
+expect sweep-csv 0 '^period_um,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --csv
+expect sweep-family 0 '^period_um,temp_C,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --family temp=30,100 --csv
+expect sweep-map 0 '^pump_um,temp_C,sinc2' -- sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:5 --map temp=20:200:5 --length 20mm --csv
+expect sweep-theta 0 '^fundamental_um,theta_deg' -- sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.8um:1.2um:5 --solve theta --csv
+expect sweep-deff 0 '^phi_deg,deff_pm_per_V' -- sweep --crystal BBO --fundamental 1064nm --type I --vary phi=0:180:7 --solve deff --csv
+expect sweep-gvm 0 'gvm_signal_idler' -- sweep --crystal BBO --pump 800nm --signal 1300nm --type I --vary signal=1.1um:1.6um:6 --solve gvm --csv
+expect sweep-bad-var 2 "unknown variable 'colour'" -- sweep --crystal MgO:LN --pump 1064nm --vary colour=1:2 --solve idler
+expect sweep-bad-ext 1 'unknown figure format' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot /tmp/x.bmp
+expect angle-curve 0 '^pol,phi_deg,theta_deg' -- angle --crystal KTP --fundamental 1064nm --curve --pol sff
+expect angle-spread 0 'spread over 3 data sets' -- angle --crystal BBO --fundamental 1064nm --type I --all-sets
+
+# Figures: valid files, nothing left behind on failure.
+if "$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve idler --family temp=30,170 --plot "$tmp/t.svg" >/dev/null 2>&1 &&
+   python3 -c "import xml.dom.minidom,sys; xml.dom.minidom.parse('$tmp/t.svg')" 2>/dev/null; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: sweep-svg-valid"; fi
+if "$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve idler --temp 40 --plot "$tmp/t.pdf" >/dev/null 2>&1 &&
+   head -c 5 "$tmp/t.pdf" | grep -q '%PDF'; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: sweep-pdf-valid"; fi
+"$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve idler --temp 40 --plot "$tmp/nodir/t.png" >/dev/null 2>&1
+if [ $? -eq 1 ] && [ -z "$(ls "$tmp" | grep -v -e db -e out -e err -e '^t\.')" ]; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: plot-unwritable"; ls "$tmp"; fi
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"
