@@ -10,6 +10,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "deltak/plot.h"
 #include "deltak/tolerance.h"
 #include "deltak/units.h"
 
@@ -32,6 +33,8 @@ static const char *const tolerance_usage[] = {
     "angle",
     "  --curve <param>   print sinc^2 against temperature, signal, pump, "
     "theta, phi, period or tilt",
+    "  --plot <file>     with --curve: draw it (.pdf, .svg, .png), the FWHM "
+    "shaded; --size as for sweep",
     "",
     "Poled crystals get a QPM design unless --type or --theta is given.",
     NULL};
@@ -66,8 +69,24 @@ per_length(const dk_acceptance *a, double length_cm, int *root)
     return a->fwhm * (*root ? sqrt(length_cm) : length_cm);
 }
 
+static const char *
+curve_xlabel(dk_tol_param p)
+{
+    switch (p) {
+    case DK_TOL_TEMPERATURE: return "Temperature (°C)";
+    case DK_TOL_SIGNAL: return "Signal (fundamental) wavelength (nm)";
+    case DK_TOL_PUMP: return "Pump wavelength (nm)";
+    case DK_TOL_THETA: return "Internal angle θ (mrad)";
+    case DK_TOL_PHI: return "Internal angle φ (mrad)";
+    case DK_TOL_PERIOD: return "Poling period Λ (nm)";
+    case DK_TOL_TILT: return "Beam tilt, internal (mrad)";
+    }
+    return "";
+}
+
 static int
-print_curve(FILE *f, dk_design *d, const item *it)
+print_curve(FILE *f, dk_design *d, const item *it, const char *plot,
+            double wmm, double hmm)
 {
     dk_acceptance a;
     dk_error err = {0};
@@ -78,13 +97,45 @@ print_curve(FILE *f, dk_design *d, const item *it)
                          "range; no curve to draw",
                          it->name);
     double w = a.fwhm, x0 = a.peak;
-    fprintf(f, "%s_%s,sinc2\n", it->key, it->unit);
-    for (int k = 0; k <= 200; k++) {
-        double x = x0 - 2 * w + 4 * w * k / 200;
+    enum { NC = 401 };
+    double xs[NC], ys[NC];
+    for (int k = 0; k < NC; k++) {
+        double x = x0 - 2 * w + 4 * w * k / (NC - 1);
         double dk = dk_design_delta_k(d, it->p, x);
-        fprintf(f, "%.10g,%.8f\n", x * it->scale,
-                dk_sinc2(dk, d->length_mm * 1e3));
+        xs[k] = x * it->scale;
+        ys[k] = dk_sinc2(dk, d->length_mm * 1e3);
     }
+    if (!plot) {
+        fprintf(f, "%s_%s,sinc2\n", it->key, it->unit);
+        for (int k = 0; k < NC; k++)
+            fprintf(f, "%.10g,%.8f\n", xs[k], ys[k]);
+        return 0;
+    }
+    dk_plot *fig = NULL;
+    char band[64];
+    snprintf(band, sizeof band, "FWHM %.3g %s", w * it->scale,
+             !strcmp(it->unit, "C") ? "°C" : it->unit);
+    dk_status s = dk_plot_new(wmm, hmm, &fig, &err);
+    if (!s)
+        s = dk_plot_set_xlabel(fig, curve_xlabel(it->p), &err);
+    if (!s)
+        s = dk_plot_set_ylabel(fig, "sinc<sup>2</sup>(Δk L/2)", &err);
+    if (!s)
+        s = dk_plot_add_band(fig, a.lo * it->scale, a.hi * it->scale, band,
+                             &err);
+    if (!s)
+        s = dk_plot_add_line(fig, xs, ys, NC, NULL, &err);
+    if (!s)
+        s = dk_plot_add_marker(fig, x0 * it->scale, 1, "operating point",
+                               &err);
+    if (!s)
+        s = dk_plot_set_yrange(fig, 0, 1.08, &err);
+    if (!s)
+        s = dk_plot_write(fig, plot, &err);
+    dk_plot_free(fig);
+    if (s)
+        return cli_error("%s", err.msg);
+    fprintf(f, "wrote %s\n", plot);
     return 0;
 }
 
@@ -105,11 +156,14 @@ cmd_tolerance(int argc, char **argv)
         {"theta", required_argument, NULL, 'Q'},
         {"order", required_argument, NULL, 'm'},
         {"curve", required_argument, NULL, 'C'},
+        {"plot", required_argument, NULL, 'G'},
+        {"size", required_argument, NULL, 'Z'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_wave_args wa = {0};
     const char *temp = NULL, *len = NULL, *period = NULL, *pol = NULL,
-               *type = NULL, *theta_s = NULL, *order_s = NULL, *curve = NULL;
+               *type = NULL, *theta_s = NULL, *order_s = NULL, *curve = NULL,
+               *plot = NULL, *size = "single";
     int ch, rc;
     optind = 1;
     opterr = 0;
@@ -129,6 +183,8 @@ cmd_tolerance(int argc, char **argv)
         case 'Q': theta_s = optarg; break;
         case 'm': order_s = optarg; break;
         case 'C': curve = optarg; break;
+        case 'G': plot = optarg; break;
+        case 'Z': size = optarg; break;
         case 'h': cli_print_usage(stdout, tolerance_usage); return 0;
         default: return cli_bad_option(argv, tolerance_usage);
         }
@@ -164,6 +220,12 @@ cmd_tolerance(int argc, char **argv)
     for (size_t i = 0; curve && i < NITEMS; i++)
         if (!strcmp(curve, items[i].key))
             want = &items[i];
+    if (plot && !curve)
+        return cli_usage_error(tolerance_usage, "--plot draws a --curve; "
+                                                "give --curve too");
+    double wmm = 0, hmm = 0;
+    if (dk_plot_size_parse(size, &wmm, &hmm, &err))
+        return cli_usage_error(tolerance_usage, "%s", err.msg);
     if (curve && !want)
         return cli_usage_error(tolerance_usage, "--curve '%s' must be one of "
                                                 "temperature, signal, pump, "
@@ -193,7 +255,7 @@ cmd_tolerance(int argc, char **argv)
     if (cli_out_open(&out))
         goto done;
     if (want) {
-        if (print_curve(out.f, &d, want)) {
+        if (print_curve(out.f, &d, want, plot, wmm, hmm)) {
             cli_out_discard(&out);
             goto done;
         }

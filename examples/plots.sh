@@ -1,0 +1,29 @@
+#!/bin/sh
+# make plots: regenerate the figures in plots/ from the demo scenarios
+# (an invented lab's 3.4 um parametric source and its BBO doubler).
+# Each figure is written as PDF (for documents) and PNG (for a quick look).
+DK=${1:-build/deltak}
+OUT=${2:-plots}
+set -e
+mkdir -p "$OUT"
+fig() { # name, then the deltak arguments without --plot
+    name=$1; shift
+    for ext in pdf png; do
+        "$DK" "$@" --plot "$OUT/$name.$ext" >/dev/null
+    done
+    echo "  $OUT/$name.{pdf,png}"
+}
+fig mgoln-idler-vs-period sweep --crystal MgO:LN --pump 1064nm \
+    --vary period=28um:32um --solve idler --family temp=30,100,170
+fig mgoln-wavelengths-vs-temperature sweep --crystal MgO:LN --pump 1064nm \
+    --vary temp=20:200:181 --solve wavelengths --family period=31.8um,32.0um,32.2um
+fig mgoln-pump-temperature-map sweep --crystal MgO:LN --signal 1550nm \
+    --period 30.5um --vary pump=1.05um:1.08um:151 --map temp=20:200:121 --length 20mm
+fig mgoln-temperature-acceptance tolerance --crystal MgO:LN --pump 1064nm \
+    --idler 3.4um --period 30.5um --length 20mm --curve temperature
+fig bbo-opa-gain-spectrum gain --crystal BBO --pump 800nm --signal 1300nm \
+    --type I --length 3mm --intensity 50GW/cm2
+fig bbo-shg-angle-vs-wavelength sweep --crystal BBO --fundamental 1030nm \
+    --type I --vary fundamental=0.6um:2.0um --solve theta
+fig bbo-opa-gvm sweep --crystal BBO --pump 800nm --signal 1300nm --type I \
+    --vary signal=1.1um:1.55um --solve gvm
