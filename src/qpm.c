@@ -105,18 +105,16 @@ dk_qpm_init(dk_qpm *q, const dk_crystal *c, const dk_dispersion_set *set,
 static dk_status
 wave_n(dk_qpm *q, char axis, double lam, double t, double *n, dk_error *err)
 {
-    dk_index_value v;
-    dk_status s = dk_material_index(q->crystal, q->set, axis, lam, t, &v,
-                                    err);
+    unsigned w;
+    dk_status s = dk_material_n(q->crystal, q->set, axis, lam, t, n, &w, err);
     if (s)
         return s;
-    if (v.warnings & ~q->warnings) {
-        if (v.warnings & DK_WARN_LAMBDA_RANGE)
+    if (w & ~q->warnings) {
+        if (w & DK_WARN_LAMBDA_RANGE)
             q->warn_lambda_um = lam;
         q->warn_temp_c = t;
     }
-    q->warnings |= v.warnings;
-    *n = v.n;
+    q->warnings |= w;
     return DK_OK;
 }
 
@@ -244,11 +242,16 @@ dk_qpm_solve_wavelengths(dk_qpm *q, double pump_um, double period_um,
     freq_probe fp = {q, pump_um, period_um, temp_c};
     double x[64];
     int nx;
-    dk_status s = dk_roots_all(dk_of_share, &fp, xlo, xhi, FREQ_SCAN,
-                               FREQ_TOL, x, 64, &nx, err);
+    int same = q->pol[0] == q->pol[1];
+    /* Equal polarisations make Δk symmetric about x = 1/2: scan one half
+     * (from degeneracy outward) at the same resolution. */
+    dk_status s = same ? dk_roots_all(dk_of_share, &fp, 0.5, xhi,
+                                      FREQ_SCAN / 2, FREQ_TOL, x, 64, &nx,
+                                      err)
+                       : dk_roots_all(dk_of_share, &fp, xlo, xhi, FREQ_SCAN,
+                                      FREQ_TOL, x, 64, &nx, err);
     if (s)
         return s;
-    int same = q->pol[0] == q->pol[1];
     for (int i = nx - 1; i >= 0 && *n < max; i--) {
         /* Equal polarisations: x and 1 − x are one solution; keep the one
          * with the shorter signal. */

@@ -29,6 +29,15 @@ dk_status dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
                             dk_index_value *out, dk_error *err);
 
 /*
+ * dk_material_n:
+ * As dk_material_index() but only n (no derivatives): the fast path for
+ * solvers that evaluate Δk many times. @warnings gets the DK_WARN_* flags.
+ */
+dk_status dk_material_n(const dk_crystal *c, const dk_dispersion_set *set,
+                        char axis, double lambda_um, double temp_c, double *n,
+                        unsigned *warnings, dk_error *err);
+
+/*
  * dk_warning_text:
  * Writes into @buf a one-line explanation of the warning flags in @v
  * for @set at (λ, T), e.g. "1.064 um is outside the fitted range
