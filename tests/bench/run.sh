@@ -12,3 +12,18 @@ if command -v valgrind >/dev/null 2>&1; then
           sed -n 's/.*Collected : //p')
     echo "deltak index (whole program, load database + evaluate): $out instructions"
 fi
+# Whole commands, timed over repeated runs (hyperfine when installed).
+run() {
+    if command -v hyperfine >/dev/null 2>&1; then
+        hyperfine -N --warmup 1 --runs 5 "$DK $*" 2>/dev/null | sed -n '1,2p'
+    else
+        t0=$(date +%s.%N); "$DK" "$@" >/dev/null 2>&1; t1=$(date +%s.%N)
+        printf '%-70s %8.3f s\n' "deltak $*" "$(echo "$t1 - $t0" | bc)"
+    fi
+}
+run period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um
+run chip --crystal MgO:LN --pump 1064nm --idler-range 2.8um:4.2um --oven 30:200
+run angle --crystal KTP --fundamental 1064nm
+run sweep --crystal MgO:LN --pump 1064nm --vary temp=20:200:121 --solve wavelengths --family period=31.8um,32.0um,32.2um --csv
+run sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:151 --map temp=20:200:121 --length 20mm --csv
+run gain --crystal BBO --fundamental 1064nm --type I --length 10mm --power 1W
