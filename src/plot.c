@@ -309,19 +309,18 @@ dk_plot_set_png_dpi(dk_plot *p, double dpi, dk_error *err)
     return DK_OK;
 }
 
-/* Make room for one more element in a growing array. */
-static int
-grow(void **arr, size_t *cap, size_t n, size_t elem)
+/* Room for one more element in the array @arr of @n (capacity *cap):
+ * the array, moved if need be, or NULL (then @arr is still valid). */
+static void *
+grow(void *arr, size_t *cap, size_t n, size_t elem)
 {
     if (n < *cap)
-        return 0;
+        return arr;
     size_t c = *cap ? 2 * *cap : 4;
-    void *a = realloc(*arr, c * elem);
-    if (!a)
-        return -1;
-    *arr = a;
-    *cap = c;
-    return 0;
+    void *a = realloc(arr, c * elem);
+    if (a)
+        *cap = c;
+    return a;
 }
 
 dk_status
@@ -343,9 +342,11 @@ dk_plot_add_line(dk_plot *p, const double *x, const double *y, size_t n,
     if (s)
         return s;
     double *cx = malloc(n * sizeof *cx), *cy = malloc(n * sizeof *cy);
-    if (!cx || !cy ||
-        grow((void **)&p->series, &p->capseries, p->nseries,
-             sizeof *p->series)) {
+    plot_series *arr = grow(p->series, &p->capseries, p->nseries,
+                            sizeof *p->series);
+    if (arr)
+        p->series = arr;
+    if (!cx || !cy || !arr) {
         free(cx);
         free(cy);
         free(lab);
@@ -369,11 +370,13 @@ dk_plot_add_marker(dk_plot *p, double x, double y, const char *label,
     dk_status s = markup_copy(label, &lab, err);
     if (s)
         return s;
-    if (grow((void **)&p->markers, &p->capmarkers, p->nmarkers,
-             sizeof *p->markers)) {
+    plot_marker *arr = grow(p->markers, &p->capmarkers, p->nmarkers,
+                            sizeof *p->markers);
+    if (!arr) {
         free(lab);
         return dk_error_set(err, DK_ENOMEM, "out of memory for a marker");
     }
+    p->markers = arr;
     p->markers[p->nmarkers++] = (plot_marker){x, y, lab};
     return DK_OK;
 }
@@ -390,10 +393,13 @@ dk_plot_add_band(dk_plot *p, double x0, double x1, const char *label,
     dk_status s = markup_copy(label, &lab, err);
     if (s)
         return s;
-    if (grow((void **)&p->bands, &p->capbands, p->nbands, sizeof *p->bands)) {
+    plot_band *arr = grow(p->bands, &p->capbands, p->nbands,
+                          sizeof *p->bands);
+    if (!arr) {
         free(lab);
         return dk_error_set(err, DK_ENOMEM, "out of memory for a band");
     }
+    p->bands = arr;
     p->bands[p->nbands++] = (plot_band){fmin(x0, x1), fmax(x0, x1), lab};
     return DK_OK;
 }

@@ -14,17 +14,17 @@
  * conventions of their implementation notes (h = 0 for a neutral colour,
  * mean hue of a neutral pair = sum).
  *
- * The colour scale follows Kovesi (2015): a path in CIELAB whose
- * lightness L* rises linearly (the eye reads order and gradient from
- * lightness, so the scale reads the same to colour-blind viewers and in
- * greyscale), whose hue turns steadily, and whose chroma is a smooth arch
- * kept inside the sRGB gamut; the path is then re-spaced so that equal
- * steps of the parameter are equal CIEDE2000 differences (Kovesi
- * equalises the perceptual contrast along his maps in this spirit). Ours: L* 12 → 94, hue
- * angle h_ab 285° → 460° (indigo, plum, rose, apricot, straw), chroma
- * 22 → 60 (at 45 % of the path) → 30. The parameters were chosen by us
- * and checked for gamut and for lightness order under simulated protan,
- * deutan and tritan vision (tests/test_plot.c).
+ * The colour scale follows Kovesi (2015): a path in CIELAB whose lightness
+ * L* rises linearly (the eye reads order and gradient from lightness, so the
+ * scale reads the same to colour-blind viewers and in greyscale), whose hue
+ * turns steadily, and whose chroma is a smooth arch kept inside the sRGB
+ * gamut; the path is then re-spaced so that equal steps of the parameter are
+ * equal CIEDE2000 differences (Kovesi equalises the perceptual contrast
+ * along his maps in this spirit). Ours: L* 12 → 94, hue angle h_ab 285° →
+ * 460° (indigo, plum, rose, apricot, straw), chroma 22 → 60 (at 45 % of the
+ * path) → 30. The parameters were chosen by us and checked for gamut and for
+ * lightness order under simulated protan, deutan and tritan vision
+ * (tests/test_plot.c).
  *
  * Line palette: five colours of our choosing (ink blue, amber, teal,
  * wine, sky) whose pairwise CIEDE2000 differences stay ≥ 10 for normal

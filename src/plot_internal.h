@@ -74,6 +74,9 @@ typedef struct plot_axis {
     double step;
     char labels[DK_PLOT_MAX_TICKS][64]; /* tick label markup */
     double label_w, label_h;            /* widest / tallest label, pt */
+    int exp10;                          /* labels show value / 10^exp10 */
+    char mult[48];                      /* "×10^exp10" markup, or "" */
+    double mult_w, mult_h;              /* its size, pt */
 } plot_axis;
 
 /* Everything the renderer needs, worked out before drawing. */
@@ -81,6 +84,8 @@ typedef struct plot_layout {
     double page_w, page_h;              /* pt */
     double ax_x, ax_y, ax_w, ax_h;      /* axes box, pt, y down */
     double f;                           /* type size, pt */
+    int ticks_out;                      /* ticks point out (over a map) */
+    double tick_gap;                    /* frame to tick labels, pt */
     plot_axis x, y;
     int has_top;
     plot_axis top;                      /* secondary axis values */
@@ -110,9 +115,11 @@ dk_status plot_layout_compute(const dk_plot *p, plot_layout *L,
 double plot_x_pt(const plot_layout *L, double x);
 double plot_y_pt(const plot_layout *L, double y);
 
-/* Draw the figure on @cr in page pt (plot_draw.c). Cairo errors stay in
- * @cr for the caller to check. */
-void plot_draw(const dk_plot *p, const plot_layout *L, cairo_t *cr);
+/* Draw the figure on @cr in page pt (plot_draw.c); @raster_scale is the
+ * output's pixels per pt, for the map image. Returns 0, or -1 when out of
+ * memory. Cairo errors stay in @cr for the caller to check. */
+int plot_draw(const dk_plot *p, const plot_layout *L, cairo_t *cr,
+              double raster_scale);
 
 /* Tick label markup for @v on an axis of step @step (plot_ticks.c). */
 void plot_tick_label(double v, double step, char *buf, size_t size);

@@ -8,6 +8,9 @@
  * that curves do not run along the frame. A flat extent is widened to
  * ±5 % of its value (±0.5 at zero).
  *
+ * Over a map, ticks point outwards (inward ticks vanish on dark data,
+ * common practice for images), and the tick labels move out by a tick.
+ *
  * Ticks: the most 1-2-5 ticks whose labels keep at least about one em
  * apart (x) or 2.6 em apart (y), at most 10; the top axis likewise at
  * nice values of the secondary quantity, spaced as they fall.
@@ -19,12 +22,15 @@
  * ticks, so this settles). All lengths are multiples of the type size f.
  */
 #include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "plot_internal.h"
 
 #define PAD 0.5            /* outer padding, em */
-#define TICK_GAP 0.45      /* tick label to frame, em */
+#define TICK_GAP 0.45      /* tick label to frame (or tick end), em */
+#define TICK_MAJOR 0.45    /* tick length, em (as plot_draw.c) */
 #define LABEL_GAP 0.5      /* axis label to tick labels, em */
 #define X_LABEL_SPACE 1.0  /* between neighbouring x tick labels, em */
 #define Y_TICK_SPACE 2.6   /* between y ticks, em */
@@ -34,6 +40,9 @@
 #define CB_W 0.9           /* colour bar width, em */
 #define TOP_SAMPLES 64     /* monotonicity check of the top transform */
 #define LAYOUT_PASSES 3
+#define OFFSET_ABOVE 1e5   /* y and colour-bar labels in units of 10^k */
+#define OFFSET_BELOW 1e-3  /* from these magnitudes on */
+#define MULT_GAP 0.3       /* "×10^k" above the frame, em */
 
 double
 plot_x_pt(const plot_layout *L, double x)
@@ -141,19 +150,35 @@ ranges(const dk_plot *p, plot_layout *L, dk_error *err)
     return DK_OK;
 }
 
-/* Ticks of @a with at most @max, their labels and label sizes. */
+/* Ticks of @a with at most @max, their labels and label sizes. With
+ * @offset (the y axis and the colour bar), ticks of magnitude ≥ 1e5 or
+ * < 1e-3 are labelled in units of a common power of ten, shown once as
+ * "×10^k" at the end of the axis, instead of as long numbers. */
 static dk_status
-axis_ticks(PangoContext *ctx, plot_axis *a, int max, double f,
+axis_ticks(PangoContext *ctx, plot_axis *a, int max, double f, int offset,
            dk_error *err)
 {
     dk_status s = dk_plot_nice_ticks(a->lo, a->hi, max, a->ticks, &a->nticks,
                                      &a->step, err);
     if (s)
         return s;
+    double big = 0;
+    for (int i = 0; i < a->nticks; i++)
+        big = fmax(big, fabs(a->ticks[i]));
+    a->exp10 = 0;
+    a->mult[0] = '\0';
+    a->mult_w = a->mult_h = 0;
+    if (offset && big > 0 && (big >= OFFSET_ABOVE || big < OFFSET_BELOW)) {
+        a->exp10 = (int)floor(log10(big) + 1e-9);
+        snprintf(a->mult, sizeof a->mult, "\xc3\x97" "10<sup>%s%d</sup>",
+                 a->exp10 < 0 ? "\xe2\x88\x92" : "", abs(a->exp10));
+        plot_text_size(ctx, a->mult, f, &a->mult_w, &a->mult_h);
+    }
+    double unit = pow(10, a->exp10);
     a->label_w = a->label_h = 0;
     for (int i = 0; i < a->nticks; i++) {
         double w, h;
-        plot_tick_label(a->ticks[i], a->step, a->labels[i],
+        plot_tick_label(a->ticks[i] / unit, a->step / unit, a->labels[i],
                         sizeof a->labels[i]);
         plot_text_size(ctx, a->labels[i], f, &w, &h);
         a->label_w = fmax(a->label_w, w);
@@ -174,7 +199,7 @@ x_ticks(PangoContext *ctx, plot_layout *L, dk_error *err)
 {
     double f = L->f;
     for (int max = MAX_AXIS_TICKS; max >= 2; max--) {
-        dk_status s = axis_ticks(ctx, &L->x, max, f, err);
+        dk_status s = axis_ticks(ctx, &L->x, max, f, 0, err);
         if (s)
             return s;
         double pitch = L->x.step / (L->x.hi - L->x.lo) * L->ax_w;
@@ -192,7 +217,7 @@ top_ticks(const dk_plot *p, PangoContext *ctx, plot_layout *L,
 {
     double f = L->f;
     for (int max = MAX_AXIS_TICKS; max >= 2; max--) {
-        dk_status s = axis_ticks(ctx, &L->top, max, f, err);
+        dk_status s = axis_ticks(ctx, &L->top, max, f, 0, err);
         if (s)
             return s;
         double minpitch = INFINITY;
@@ -253,7 +278,7 @@ label_size(PangoContext *ctx, const char *markup, double f, double *w,
 static dk_status
 place(const dk_plot *p, PangoContext *ctx, plot_layout *L, dk_error *err)
 {
-    double f = L->f;
+    double f = L->f, gap = L->tick_gap;
     double xl_w, xl_h, yl_w, yl_h, tl_w, tl_h, zl_w, zl_h;
     label_size(ctx, p->xlabel, f, &xl_w, &xl_h);
     label_size(ctx, p->ylabel, f, &yl_w, &yl_h);
@@ -273,25 +298,28 @@ place(const dk_plot *p, PangoContext *ctx, plot_layout *L, dk_error *err)
             s = axis_ticks(ctx, &L->y, clampi((int)(L->ax_h / (Y_TICK_SPACE
                                                                 * f)) + 1,
                                               2, MAX_AXIS_TICKS),
-                           f, err);
+                           f, 1, err);
         if (!s && L->has_top)
             s = top_ticks(p, ctx, L, err);
         if (!s && L->has_map)
             s = axis_ticks(ctx, &L->z, clampi((int)(L->ax_h / (Y_TICK_SPACE
                                                                 * f)) + 1,
                                               2, MAX_AXIS_TICKS),
-                           f, err);
+                           f, 1, err);
         if (s)
             return s;
 
         double left = PAD * f + (yl_h > 0 ? yl_h + LABEL_GAP * f : 0) +
-                      L->y.label_w + TICK_GAP * f;
+                      L->y.label_w + gap;
         double bottom = PAD * f + (xl_h > 0 ? xl_h + LABEL_GAP * f : 0) +
-                        L->x.label_h + TICK_GAP * f;
+                        L->x.label_h + gap;
         double top = PAD * f + 0.5 * L->y.label_h;
+        double mult_h = fmax(L->y.mult_h, L->has_map ? L->z.mult_h : 0);
+        if (mult_h > 0)
+            top = fmax(top, PAD * f + mult_h + MULT_GAP * f);
         if (L->has_top)
             top = PAD * f + (tl_h > 0 ? tl_h + LABEL_GAP * f : 0) +
-                  L->top.label_h + TICK_GAP * f;
+                  L->top.label_h + gap;
         double right = PAD * f + 0.5 * L->x.label_w;
         if (L->has_map)
             right = PAD * f + CB_GAP * f + CB_W * f + TICK_GAP * f +
@@ -321,6 +349,8 @@ plot_layout_compute(const dk_plot *p, plot_layout *L, dk_error *err)
     L->page_w = p->width_mm * PLOT_PT_PER_MM;
     L->page_h = p->height_mm * PLOT_PT_PER_MM;
     L->f = p->font_pt;
+    L->ticks_out = p->map != NULL;
+    L->tick_gap = (TICK_GAP + (L->ticks_out ? TICK_MAJOR : 0)) * L->f;
     dk_status s = ranges(p, L, err);
     if (s)
         return s;

@@ -12,10 +12,13 @@
  * set, so a malformed label is reported where it was given.
  *
  * House style: sans-serif type ("Sans" through fontconfig), a thin frame
- * with inward ticks on all four sides, 1-2-5 tick steps with minor ticks,
- * no grid and no title; five line colours chosen to stay apart for
- * protan, deutan and tritan viewers; maps use the "afterglow" colour
- * scale (dk_colormap_rgb), whose CIELAB lightness rises monotonically.
+ * with inward ticks on all four sides (outward on two over a map), 1-2-5
+ * tick steps with minor ticks, a true minus sign, y and colour-bar
+ * values of magnitude ≥ 1e5 or < 1e-3 labelled in units of 10^k with
+ * "×10^k" once at the axis end, no grid and no title; five line colours
+ * chosen to stay apart for protan, deutan and tritan viewers; maps use
+ * the "afterglow" colour scale (dk_colormap_rgb), whose CIELAB lightness
+ * rises monotonically.
  *
  * Output is deterministic: the same figure gives the same bytes (the
  * PDF carries no creation date). Files are written atomically: a
@@ -30,7 +33,9 @@
  *   W. E. Lorensen, H. E. Cline, Computer Graphics 21(4), 163 (1987) -
  *   marching cubes, whose 2-D case (marching squares) traces contours.
  *   P. S. Heckbert, "Nice numbers for graph labels", in Graphics Gems,
- *   Academic Press (1990), p. 61 - 1-2-5 tick steps.
+ *   Academic Press (1990), pp. 61-63 - 1-2-5 tick steps.
+ *   Y.-D. Liang, B. A. Barsky, ACM Trans. Graph. 3, 1 (1984) - line
+ *   clipping.
  */
 #ifndef DK_PLOT_H
 #define DK_PLOT_H
@@ -209,8 +214,8 @@ dk_status dk_plot_set_top_axis(dk_plot *plot, dk_plot_transform to_top,
 double dk_plot_um_to_per_cm(double um, void *params);
 double dk_plot_per_cm_to_um(double per_cm, void *params);
 
-/* Where the legend goes. AUTO picks the inside corner that covers the
- * least data. */
+/* Where the legend goes. AUTO picks the inside corner (or, when all four
+ * cover data, the middle of a side) that covers the least data. */
 typedef enum dk_plot_legend {
     DK_PLOT_LEGEND_AUTO = 0,
     DK_PLOT_LEGEND_NONE,
@@ -220,7 +225,8 @@ typedef enum dk_plot_legend {
     DK_PLOT_LEGEND_LOWER_LEFT
 } dk_plot_legend;
 
-/* Place the legend (listing labelled series, bands and contours). */
+/* Place the legend (listing labelled series, bands and contours). A
+ * legend that does not fit inside the axes box is left out. */
 void dk_plot_set_legend(dk_plot *plot, dk_plot_legend where);
 
 /*

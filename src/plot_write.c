@@ -1,0 +1,368 @@
+/*
+ * plot_write.c - writing a figure to PDF, SVG or PNG, atomically and
+ * reproducibly.
+ *
+ * The format follows the file name's extension. The figure is laid out
+ * first (so that a bad figure fails before any file exists), then drawn
+ * into a temporary file created beside the target (same directory, hence
+ * same file system, so rename() is atomic; O_EXCL, mode 0666 less the
+ * umask, as an ordinary new file). Cairo writes through a stream callback
+ * that records the first write error. Only when cairo reports success
+ * for the drawing and the surface, and the data are flushed and synced,
+ * is the temporary file renamed over the target; on any failure it is
+ * removed.
+ *
+ * Reproducible bytes: PNG has no time stamp. Cairo's PDF carries a creation
+ * date unless it is set; from cairo 1.16 on we set it empty, which cairo
+ * takes as "omit" (checked by the tests), and fix the creator. Cairo's SVG
+ * names its page group and embedded images after a process-wide counter, so
+ * the SVG is built in memory and those ids are renumbered per document
+ * before it is written; the map image inside is PNG, without time stamp. PDF
+ * sizes are the page in pt; SVG gets the size in pt; PNG is
+ * width_mm/25.4·dpi pixels wide, with the page scaled by dpi/72.
+ *
+ * References:
+ *   IEEE Std 1003.1-2017 (POSIX), rename(): atomic replacement of the
+ *   target within one file system.
+ *   cairo 1.16 API: cairo_pdf_surface_set_metadata,
+ *   cairo_svg_surface_set_document_unit, cairo_surface_write_to_png_stream.
+ */
+#include <errno.h>
+#include <fcntl.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+#include <unistd.h>
+
+#include <cairo-pdf.h>
+#include <cairo-svg.h>
+
+#include "plot_internal.h"
+
+#define VECTOR_RASTER_PPI 200.0   /* map image resolution in PDF/SVG */
+#define TEMP_TRIES 100
+
+typedef enum { FMT_PDF, FMT_SVG, FMT_PNG } fmt;
+
+typedef struct sink {
+    FILE *fp;
+    int err_no;           /* first write error, 0 if none */
+} sink;
+
+static cairo_status_t
+sink_write(void *closure, const unsigned char *data, unsigned int length)
+{
+    sink *s = closure;
+    if (s->err_no)
+        return CAIRO_STATUS_WRITE_ERROR;
+    if (fwrite(data, 1, length, s->fp) != length) {
+        s->err_no = errno ? errno : EIO;
+        return CAIRO_STATUS_WRITE_ERROR;
+    }
+    return CAIRO_STATUS_SUCCESS;
+}
+
+/* SVG goes to memory first, to renumber its ids (see svg_write_stable). */
+typedef struct membuf {
+    unsigned char *data;
+    size_t len, cap;
+} membuf;
+
+static cairo_status_t
+mem_write(void *closure, const unsigned char *data, unsigned int length)
+{
+    membuf *m = closure;
+    if (m->len + length > m->cap) {
+        size_t cap = m->cap ? m->cap : 65536;
+        while (cap < m->len + length)
+            cap *= 2;
+        unsigned char *d = realloc(m->data, cap);
+        if (!d)
+            return CAIRO_STATUS_NO_MEMORY;
+        m->data = d;
+        m->cap = cap;
+    }
+    memcpy(m->data + m->len, data, length);
+    m->len += length;
+    return CAIRO_STATUS_SUCCESS;
+}
+
+/*
+ * Write the SVG in @m to @s with cairo's process-wide ids made
+ * per-document: cairo names the page group "surfaceN" and embedded images
+ * "imageN" after a counter shared by every surface the process has made,
+ * so the same figure drawn twice would differ. Each such id (after '"' or
+ * '#', which base64 data never contain) is renumbered 1, 2, ... in order
+ * of first appearance. Returns a cairo status.
+ */
+#define SVG_MAX_IDS 64
+static cairo_status_t
+svg_write_stable(const membuf *m, sink *s)
+{
+    static const char *const kinds[] = {"surface", "image"};
+    unsigned long orig[2][SVG_MAX_IDS];
+    int nids[2] = {0, 0};
+    size_t done = 0, i = 0;
+    while (i < m->len) {
+        unsigned char c = m->data[i];
+        int kind = -1;
+        size_t klen = 0;
+        if (c == '"' || c == '#')
+            for (int k = 0; k < 2; k++) {
+                klen = strlen(kinds[k]);
+                if (i + 1 + klen < m->len &&
+                    memcmp(m->data + i + 1, kinds[k], klen) == 0 &&
+                    m->data[i + 1 + klen] >= '0' &&
+                    m->data[i + 1 + klen] <= '9') {
+                    kind = k;
+                    break;
+                }
+            }
+        if (kind < 0) {
+            i++;
+            continue;
+        }
+        size_t j = i + 1 + klen;
+        unsigned long v = 0;
+        while (j < m->len && m->data[j] >= '0' && m->data[j] <= '9')
+            v = 10 * v + (unsigned long)(m->data[j++] - '0');
+        int idx = 0;
+        while (idx < nids[kind] && orig[kind][idx] != v)
+            idx++;
+        if (idx == nids[kind]) {
+            if (idx == SVG_MAX_IDS)
+                return CAIRO_STATUS_NO_MEMORY;
+            orig[kind][nids[kind]++] = v;
+        }
+        char num[32];
+        int len = snprintf(num, sizeof num, "%c%s%d", c, kinds[kind],
+                           idx + 1);
+        cairo_status_t cs = sink_write(s, m->data + done,
+                                       (unsigned)(i - done));
+        if (cs == CAIRO_STATUS_SUCCESS)
+            cs = sink_write(s, (const unsigned char *)num, (unsigned)len);
+        if (cs != CAIRO_STATUS_SUCCESS)
+            return cs;
+        i = done = j;
+    }
+    return sink_write(s, m->data + done, (unsigned)(m->len - done));
+}
+
+static int
+format_of(const char *path, fmt *f)
+{
+    const char *slash = strrchr(path, '/');
+    const char *base = slash ? slash + 1 : path;
+    const char *dot = strrchr(base, '.');
+    if (!dot || dot == base)
+        return 0;
+    if (strcasecmp(dot, ".pdf") == 0)
+        *f = FMT_PDF;
+    else if (strcasecmp(dot, ".svg") == 0)
+        *f = FMT_SVG;
+    else if (strcasecmp(dot, ".png") == 0)
+        *f = FMT_PNG;
+    else
+        return 0;
+    return 1;
+}
+
+/* Create "<dir>/.<base>.<pid>-<n>.tmp" with O_EXCL; its name in *tmp
+ * (malloc'd). Returns the descriptor, or -1 with errno set. */
+static int
+open_temp(const char *path, char **tmp)
+{
+    static unsigned counter;
+    const char *slash = strrchr(path, '/');
+    size_t dirlen = slash ? (size_t)(slash - path) + 1 : 0;
+    const char *base = slash ? slash + 1 : path;
+    size_t size = strlen(path) + 48;
+    char *name = malloc(size);
+    if (!name) {
+        errno = ENOMEM;
+        return -1;
+    }
+    for (int k = 0; k < TEMP_TRIES; k++) {
+        snprintf(name, size, "%.*s.%s.%ld-%u.tmp", (int)dirlen, path, base,
+                 (long)getpid(), counter++);
+        int fd = open(name, O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
+        if (fd >= 0) {
+            *tmp = name;
+            return fd;
+        }
+        if (errno != EEXIST)
+            break;
+    }
+    int e = errno;
+    free(name);
+    errno = e;
+    return -1;
+}
+
+/* Map a cairo status to ours, with a message naming @path. */
+static dk_status
+cairo_failure(cairo_status_t cs, const sink *s, const char *path,
+              dk_error *err)
+{
+    if (cs == CAIRO_STATUS_NO_MEMORY)
+        return dk_error_set(err, DK_ENOMEM, "cannot write '%s': out of memory",
+                            path);
+    if (cs == CAIRO_STATUS_WRITE_ERROR && s->err_no)
+        return dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
+                            strerror(s->err_no));
+    return dk_error_set(err, DK_EIO, "cannot write '%s': cairo: %s", path,
+                        cairo_status_to_string(cs));
+}
+
+static cairo_surface_t *
+make_surface(fmt f, const plot_layout *L, double scale, sink *s,
+             membuf *mem)
+{
+    switch (f) {
+    case FMT_PDF: {
+        cairo_surface_t *surf = cairo_pdf_surface_create_for_stream(
+            sink_write, s, L->page_w, L->page_h);
+#if CAIRO_VERSION >= CAIRO_VERSION_ENCODE(1, 16, 0)
+        cairo_pdf_surface_set_metadata(surf, CAIRO_PDF_METADATA_CREATE_DATE,
+                                       "");
+        cairo_pdf_surface_set_metadata(surf, CAIRO_PDF_METADATA_CREATOR,
+                                       "deltak");
+#endif
+        return surf;
+    }
+    case FMT_SVG: {
+        cairo_surface_t *surf = cairo_svg_surface_create_for_stream(
+            mem_write, mem, L->page_w, L->page_h);
+#if CAIRO_VERSION >= CAIRO_VERSION_ENCODE(1, 16, 0)
+        cairo_svg_surface_set_document_unit(surf, CAIRO_SVG_UNIT_PT);
+#endif
+        return surf;
+    }
+    case FMT_PNG:
+        return cairo_image_surface_create(CAIRO_FORMAT_RGB24,
+                                          (int)lround(L->page_w * scale),
+                                          (int)lround(L->page_h * scale));
+    }
+    return NULL;
+}
+
+/*
+ * Draw the figure on a fresh context of @target (page pt for PDF and SVG).
+ * A PNG is drawn in pt onto a recording surface, which is then replayed
+ * onto the pixels at dpi/72: pango sizes <sub>/<sup> text wrongly under a
+ * scaled transformation (seen with pango 1.50), and a replay scales the
+ * glyphs already laid out. Returns a cairo status; *oom when plot_draw()
+ * ran out of memory.
+ */
+static cairo_status_t
+draw_on(const dk_plot *p, const plot_layout *L, fmt f, double scale,
+        cairo_surface_t *target, int *oom)
+{
+    cairo_surface_t *surf = target;
+    if (f == FMT_PNG) {
+        cairo_rectangle_t ext = {0, 0, L->page_w, L->page_h};
+        surf = cairo_recording_surface_create(CAIRO_CONTENT_COLOR_ALPHA,
+                                              &ext);
+    }
+    cairo_t *cr = cairo_create(surf);
+    if (cairo_status(cr) == CAIRO_STATUS_SUCCESS)
+        *oom = plot_draw(p, L, cr, scale) != 0;
+    cairo_status_t cs = cairo_status(cr);
+    cairo_destroy(cr);
+    if (f != FMT_PNG)
+        return cs;
+    if (cs == CAIRO_STATUS_SUCCESS && !*oom) {
+        cr = cairo_create(target);
+        cairo_set_source_rgb(cr, 1, 1, 1);
+        cairo_paint(cr);
+        cairo_scale(cr, scale, scale);
+        cairo_set_source_surface(cr, surf, 0, 0);
+        cairo_paint(cr);
+        cs = cairo_status(cr);
+        cairo_destroy(cr);
+    }
+    cairo_surface_destroy(surf);
+    return cs;
+}
+
+/* Draw into an open stream; DK_OK when cairo reports no error. */
+static dk_status
+render(const dk_plot *p, const plot_layout *L, fmt f, sink *s,
+       const char *path, dk_error *err)
+{
+    double scale = f == FMT_PNG ? p->dpi / 72 : VECTOR_RASTER_PPI / 72;
+    membuf mem = {0};
+    cairo_surface_t *surf = make_surface(f, L, scale, s, &mem);
+    cairo_status_t cs = cairo_surface_status(surf);
+    if (cs != CAIRO_STATUS_SUCCESS) {
+        cairo_surface_destroy(surf);
+        free(mem.data);
+        return cairo_failure(cs, s, path, err);
+    }
+    int oom = 0;
+    cs = draw_on(p, L, f, scale, surf, &oom);
+    if (cs == CAIRO_STATUS_SUCCESS && !oom) {
+        if (f == FMT_PNG)
+            cs = cairo_surface_write_to_png_stream(surf, sink_write, s);
+        else
+            cairo_surface_finish(surf);
+        if (cs == CAIRO_STATUS_SUCCESS)
+            cs = cairo_surface_status(surf);
+    }
+    cairo_surface_destroy(surf);
+    if (f == FMT_SVG && cs == CAIRO_STATUS_SUCCESS && !oom)
+        cs = svg_write_stable(&mem, s);
+    free(mem.data);
+    if (oom)
+        return dk_error_set(err, DK_ENOMEM, "cannot draw '%s': out of "
+                            "memory", path);
+    if (cs != CAIRO_STATUS_SUCCESS)
+        return cairo_failure(cs, s, path, err);
+    return DK_OK;
+}
+
+dk_status
+dk_plot_write(const dk_plot *p, const char *path, dk_error *err)
+{
+    fmt f;
+    if (!path || !format_of(path, &f))
+        return dk_error_set(err, DK_EINVAL,
+                            "unknown figure format '%s': use a file name "
+                            "ending in %s",
+                            path ? path : "(null)", DK_PLOT_FORMATS);
+    plot_layout L;
+    dk_status st = plot_layout_compute(p, &L, err);
+    if (st)
+        return st;
+
+    char *tmp = NULL;
+    int fd = open_temp(path, &tmp);
+    if (fd < 0)
+        return dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
+                            strerror(errno));
+    sink s = {fdopen(fd, "wb"), 0};
+    if (!s.fp) {
+        int e = errno;
+        close(fd);
+        unlink(tmp);
+        free(tmp);
+        return dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
+                            strerror(e));
+    }
+    st = render(p, &L, f, &s, path, err);
+    if (!st && (fflush(s.fp) != 0 || fsync(fileno(s.fp)) != 0))
+        st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
+                          strerror(errno));
+    if (fclose(s.fp) != 0 && !st)
+        st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
+                          strerror(errno));
+    if (!st && rename(tmp, path) != 0)
+        st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
+                          strerror(errno));
+    if (st)
+        unlink(tmp);
+    free(tmp);
+    return st;
+}
