@@ -29,7 +29,7 @@ CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
-.PHONY: all deps check unit cli-tests asan demo bench plots clean help
+.PHONY: all deps check unit cli-tests asan demo bench plots fuzz clean help
 
 all: $(BUILD)/deltak
 
@@ -39,6 +39,7 @@ help:
 	@echo "make demo       run the demo scenarios on the shipped database"
 	@echo "make bench      measure speed (benchmarks never run in check)"
 	@echo "make plots      regenerate the figures in plots/"
+	@echo "make fuzz       fuzz the crystal loader (clang, FUZZ_SECONDS=60)"
 
 $(DEPCHECK): .ci/install-deps
 	@sh .ci/install-deps
@@ -96,6 +97,16 @@ bench: $(BUILD)/deltak $(BUILD)/bench_index
 
 plots: $(BUILD)/deltak
 	@sh examples/plots.sh $(BUILD)/deltak plots
+
+# Open-ended fuzzing of the crystal loader (needs clang with libFuzzer).
+FUZZ_SECONDS ?= 60
+fuzz: | $(DEPCHECK)
+	@command -v clang >/dev/null || { echo "error: make fuzz needs clang (apt-get install clang)"; exit 1; }
+	@mkdir -p $(BUILD)/fuzz
+	clang -g -O1 -fsanitize=fuzzer,address,undefined -std=gnu17 -Iinclude -Isrc \
+	    $(PKG_CFLAGS) -DDK_VERSION='"$(VERSION)"' -o $(BUILD)/fuzz/fuzz_crystal \
+	    tests/fuzz/fuzz_crystal.c $(LIB_SRC) $(LDLIBS_ALL)
+	$(BUILD)/fuzz/fuzz_crystal -max_total_time=$(FUZZ_SECONDS) crystals tests/data/bad
 
 clean:
 	rm -rf $(BUILD)
