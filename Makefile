@@ -106,7 +106,9 @@ fuzz: | $(DEPCHECK)
 	clang -g -O1 -fsanitize=fuzzer,address,undefined -std=gnu17 -Iinclude -Isrc \
 	    $(PKG_CFLAGS) -DDK_VERSION='"$(VERSION)"' -o $(BUILD)/fuzz/fuzz_crystal \
 	    tests/fuzz/fuzz_crystal.c $(LIB_SRC) $(LDLIBS_ALL)
-	$(BUILD)/fuzz/fuzz_crystal -max_total_time=$(FUZZ_SECONDS) crystals tests/data/bad
+	@mkdir -p $(BUILD)/fuzz/corpus
+	@cp crystals/*.yaml tests/data/bad/*.yaml $(BUILD)/fuzz/corpus/
+	$(BUILD)/fuzz/fuzz_crystal -max_total_time=$(FUZZ_SECONDS) $(BUILD)/fuzz/corpus
 
 clean:
 	rm -rf $(BUILD)
