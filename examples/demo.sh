@@ -40,4 +40,7 @@ step "A second stage doubles the 1030 nm seed laser in BBO: which cut?" \
 step "Its alignment tolerance in a 2 mm crystal" \
      "tolerance --crystal BBO --fundamental 1030nm --type I --length 2mm" \
      tolerance --crystal BBO --fundamental 1030nm --type I --length 2mm
+step "The whole design as one reproducible file, with a report" \
+     "run examples/larchmont-3um-source.dk" \
+     run examples/larchmont-3um-source.dk
 printf '\nLaser safety: Class 3B/4 beams, invisible in the mid-infrared. Wear eye\nprotection rated for every wavelength present; local rules and your laser\nsafety officer take precedence.\n'

@@ -30,6 +30,8 @@ static const struct cli_cmd commands[] = {
      "QPM poling period; or, for a period, temperature or wavelengths"},
     {"pulse", cmd_pulse,
      "group velocities, GVM, GVD, pulse-splitting and walk-off lengths"},
+    {"run", cmd_run,
+     "carry out a design file: every step, figures and a report"},
     {"sweep", cmd_sweep,
      "tuning curves (1-D) and phase-matching maps (2-D), with --plot"},
     {"tolerance", cmd_tolerance,

@@ -151,6 +151,17 @@ if "$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve
 if [ $? -eq 1 ] && [ -z "$(ls "$tmp" | grep -v -e db -e out -e err -e '^t\.')" ]; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: plot-unwritable"; ls "$tmp"; fi
 
+# Design files: a report only when every step succeeds.
+printf 'title: test design\nreport: %s/r.md\nperiod --crystal MgO:LN --fundamental 1064nm\nangle --crystal BBO --fundamental "1064nm" --type I\n' "$tmp" > "$tmp/ok.dk"
+printf 'report: %s/bad.md\nperiod --crystal MgO:LN --fundamental 1064nm\nperiod --crystal unobtainium --fundamental 1064nm\n' "$tmp" > "$tmp/bad.dk"
+expect run-ok 0 'ran 2 steps' -- run "$tmp/ok.dk"
+if grep -q '^## Laser safety' "$tmp/r.md" && grep -q 'Gayer2008' "$tmp/r.md"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-report-content"; fi
+expect run-fail 1 'line 3 failed' -- run "$tmp/bad.dk"
+if [ ! -e "$tmp/bad.md" ] && ! ls "$tmp" | grep -q 'bad.md.tmp'; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-fail-no-report"; fi
+expect run-missing 1 'cannot read design file' -- run "$tmp/none.dk"
+
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
 cp crystals/mgo-linbo3.yaml "$tmp/db/"
