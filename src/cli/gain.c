@@ -10,6 +10,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "design_args.h"
 #include "deltak/gain_spectrum.h"
 #include "deltak/plot.h"
 #include "deltak/pulse.h"
@@ -80,15 +81,7 @@ cmd_gain(int argc, char **argv)
 {
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"pump", required_argument, NULL, 'p'},
-        {"signal", required_argument, NULL, 's'},
-        {"idler", required_argument, NULL, 'i'},
-        {"fundamental", required_argument, NULL, 'f'},
-        {"temp", required_argument, NULL, 't'},
-        {"period", required_argument, NULL, 'P'},
-        {"type", required_argument, NULL, 'T'},
-        {"pol", required_argument, NULL, 'o'},
-        {"theta", required_argument, NULL, 'Q'},
+        CLI_DESIGN_OPTIONS,
         {"length", required_argument, NULL, 'L'},
         {"intensity", required_argument, NULL, 'I'},
         {"seed", required_argument, NULL, 'E'},
@@ -100,27 +93,16 @@ cmd_gain(int argc, char **argv)
         {"size", required_argument, NULL, 'Z'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
-    cli_wave_args wa = {0};
-    const char *temp = NULL, *period = NULL, *type = NULL, *pol = NULL,
-               *theta_s = NULL, *len = NULL, *inten_s = NULL, *seed_s = NULL,
-               *power_s = NULL, *waist_s = NULL, *plot = NULL,
-               *size = "single";
+    cli_design_args da = {0};
+    const char *len = NULL, *inten_s = NULL, *seed_s = NULL, *power_s = NULL,
+               *waist_s = NULL, *plot = NULL, *size = "single";
     int depletion = 0, spectrum = 0, ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
+        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
             continue;
         switch (ch) {
-        case 'p': wa.pump = optarg; break;
-        case 's': wa.signal = optarg; break;
-        case 'i': wa.idler = optarg; break;
-        case 'f': wa.fundamental = optarg; break;
-        case 't': temp = optarg; break;
-        case 'P': period = optarg; break;
-        case 'T': type = optarg; break;
-        case 'o': pol = optarg; break;
-        case 'Q': theta_s = optarg; break;
         case 'L': len = optarg; break;
         case 'I': inten_s = optarg; break;
         case 'E': seed_s = optarg; break;
@@ -136,31 +118,24 @@ cmd_gain(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 0, gain_usage)))
         return rc;
+    cli_design_spec sp;
     dk_design d = {0};
     dk_error err = {0};
-    if (cli_parse_waves(&wa, 1, &d.waves, &d.shg, gain_usage))
-        return CLI_USAGE;
+    if ((rc = cli_design_parse(&da, &sp, gain_usage)))
+        return rc;
+    d.shg = sp.shg;
     if (!len)
         return cli_usage_error(gain_usage, "--length is required, e.g. "
                                            "--length 10mm");
-    double period_um = 0, theta = NAN, inten = NAN, seed = NAN, power = NAN;
-    double waist_mm = NAN, wmm = 0, hmm = 0;
-    char *end;
-    d.temp_c = 25;
+    double inten = NAN, seed = NAN, power = NAN, waist_mm = NAN, wmm = 0,
+           hmm = 0;
     if (dk_parse_length(len, &d.length_mm, &err) ||
-        (temp && dk_parse_temperature(temp, &d.temp_c, &err)) ||
-        (period && dk_parse_length(period, &period_um, &err)) ||
         (inten_s && dk_parse_intensity(inten_s, &inten, &err)) ||
         (seed_s && dk_parse_intensity(seed_s, &seed, &err)) ||
         (power_s && dk_parse_power(power_s, &power, &err)) ||
         (waist_s && dk_parse_length(waist_s, &waist_mm, &err)) ||
         dk_plot_size_parse(size, &wmm, &hmm, &err))
         return cli_usage_error(gain_usage, "%s", err.msg);
-    period_um *= 1e3;
-    if (theta_s && (theta = strtod(theta_s, &end) * DEG, *end))
-        return cli_usage_error(gain_usage, "--theta must be degrees");
-    if (type && strcmp(type, "I") && strcmp(type, "II"))
-        return cli_usage_error(gain_usage, "--type must be I or II");
     if (d.shg && (spectrum || plot || seed_s))
         return cli_usage_error(gain_usage, "--spectrum, --plot and --seed "
                                            "are for three-wave mixing, not "
@@ -188,15 +163,11 @@ cmd_gain(int argc, char **argv)
     const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
     if (!set)
         goto done;
-    if (!temp && !dk_set_has_temperature(set))
-        d.temp_c = set->reference_temperature_c;
-    int qpm = period_um > 0 ||
-              (c->poling != DK_POLING_NONE && !type && !theta_s);
+    int qpm;
     dk_pulse_props pp;
-    if ((qpm ? dk_design_setup_qpm(&d, c, set, pol, 1, period_um,
-                                   temp != NULL, &err)
-             : dk_design_setup_angle(&d, c, set, pol, type, theta, &err)) ||
-        dk_pulse_props_of(&d, &pp, &err)) {
+    if (cli_design_setup(&sp, c, set, &d, &qpm))
+        goto done;
+    if (dk_pulse_props_of(&d, &pp, &err)) {
         cli_error("%s", err.msg);
         goto done;
     }

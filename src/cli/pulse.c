@@ -10,6 +10,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "design_args.h"
 #include "deltak/pulse.h"
 #include "deltak/units.h"
 
@@ -51,39 +52,21 @@ cmd_pulse(int argc, char **argv)
 {
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"pump", required_argument, NULL, 'p'},
-        {"signal", required_argument, NULL, 's'},
-        {"idler", required_argument, NULL, 'i'},
-        {"fundamental", required_argument, NULL, 'f'},
-        {"temp", required_argument, NULL, 't'},
-        {"period", required_argument, NULL, 'P'},
-        {"pol", required_argument, NULL, 'o'},
-        {"type", required_argument, NULL, 'T'},
-        {"theta", required_argument, NULL, 'Q'},
+        CLI_DESIGN_OPTIONS,
         {"duration", required_argument, NULL, 'D'},
         {"waist", required_argument, NULL, 'W'},
         {"length", required_argument, NULL, 'L'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
-    cli_wave_args wa = {0};
-    const char *temp = NULL, *period = NULL, *pol = NULL, *type = NULL,
-               *theta_s = NULL, *dur_s = NULL, *waist_s = NULL, *len_s = NULL;
+    cli_design_args da = {0};
+    const char *dur_s = NULL, *waist_s = NULL, *len_s = NULL;
     int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
+        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
             continue;
         switch (ch) {
-        case 'p': wa.pump = optarg; break;
-        case 's': wa.signal = optarg; break;
-        case 'i': wa.idler = optarg; break;
-        case 'f': wa.fundamental = optarg; break;
-        case 't': temp = optarg; break;
-        case 'P': period = optarg; break;
-        case 'o': pol = optarg; break;
-        case 'T': type = optarg; break;
-        case 'Q': theta_s = optarg; break;
         case 'D': dur_s = optarg; break;
         case 'W': waist_s = optarg; break;
         case 'L': len_s = optarg; break;
@@ -96,44 +79,29 @@ cmd_pulse(int argc, char **argv)
     if (cm.csv)
         return cli_usage_error(pulse_usage, "--csv is not offered here; use "
                                             "--json");
-    dk_design d = {0};
+    cli_design_spec sp;
     dk_error err = {0};
-    if (cli_parse_waves(&wa, 1, &d.waves, &d.shg, pulse_usage))
-        return CLI_USAGE;
-    double period_um = 0, theta = NAN, tau = NAN, waist_mm = NAN;
-    double len_mm = NAN;
-    char *end;
-    d.temp_c = 25;
-    d.length_mm = 1;
-    if ((temp && dk_parse_temperature(temp, &d.temp_c, &err)) ||
-        (period && dk_parse_length(period, &period_um, &err)) ||
-        (dur_s && dk_parse_duration(dur_s, &tau, &err)) ||
+    double tau = NAN, waist_mm = NAN, len_mm = NAN;
+    if ((rc = cli_design_parse(&da, &sp, pulse_usage)))
+        return rc;
+    if ((dur_s && dk_parse_duration(dur_s, &tau, &err)) ||
         (waist_s && dk_parse_length(waist_s, &waist_mm, &err)) ||
         (len_s && dk_parse_length(len_s, &len_mm, &err)))
         return cli_usage_error(pulse_usage, "%s", err.msg);
-    period_um *= 1e3;
-    if (theta_s && (theta = strtod(theta_s, &end) * DEG, *end))
-        return cli_usage_error(pulse_usage, "--theta must be degrees");
-    if (type && strcmp(type, "I") && strcmp(type, "II"))
-        return cli_usage_error(pulse_usage, "--type must be I or II");
 
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
     rc = CLI_FAIL;
+    dk_design d = {0};
+    d.length_mm = 1;
+    int qpm;
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
     const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
-    if (!set)
-        goto done;
-    if (!temp && !dk_set_has_temperature(set))
-        d.temp_c = set->reference_temperature_c;
-    int qpm = period_um > 0 ||
-              (c->poling != DK_POLING_NONE && !type && !theta_s);
     dk_pulse_props pp;
-    if ((qpm ? dk_design_setup_qpm(&d, c, set, pol, 1, period_um,
-                                   temp != NULL, &err)
-             : dk_design_setup_angle(&d, c, set, pol, type, theta, &err)) ||
-        dk_pulse_props_of(&d, &pp, &err)) {
+    if (!set || cli_design_setup(&sp, c, set, &d, &qpm))
+        goto done;
+    if (dk_pulse_props_of(&d, &pp, &err)) {
         cli_error("%s", err.msg);
         goto done;
     }

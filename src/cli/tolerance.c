@@ -10,6 +10,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "design_args.h"
 #include "deltak/plot.h"
 #include "deltak/tolerance.h"
 #include "deltak/units.h"
@@ -144,44 +145,23 @@ cmd_tolerance(int argc, char **argv)
 {
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"pump", required_argument, NULL, 'p'},
-        {"signal", required_argument, NULL, 's'},
-        {"idler", required_argument, NULL, 'i'},
-        {"fundamental", required_argument, NULL, 'f'},
-        {"temp", required_argument, NULL, 't'},
+        CLI_DESIGN_OPTIONS,
         {"length", required_argument, NULL, 'L'},
-        {"period", required_argument, NULL, 'P'},
-        {"pol", required_argument, NULL, 'o'},
-        {"type", required_argument, NULL, 'T'},
-        {"theta", required_argument, NULL, 'Q'},
-        {"order", required_argument, NULL, 'm'},
         {"curve", required_argument, NULL, 'C'},
         {"plot", required_argument, NULL, 'G'},
         {"size", required_argument, NULL, 'Z'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
-    cli_wave_args wa = {0};
-    const char *temp = NULL, *len = NULL, *period = NULL, *pol = NULL,
-               *type = NULL, *theta_s = NULL, *order_s = NULL, *curve = NULL,
-               *plot = NULL, *size = "single";
+    cli_design_args da = {0};
+    const char *len = NULL, *curve = NULL, *plot = NULL, *size = "single";
     int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
+        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
             continue;
         switch (ch) {
-        case 'p': wa.pump = optarg; break;
-        case 's': wa.signal = optarg; break;
-        case 'i': wa.idler = optarg; break;
-        case 'f': wa.fundamental = optarg; break;
-        case 't': temp = optarg; break;
         case 'L': len = optarg; break;
-        case 'P': period = optarg; break;
-        case 'o': pol = optarg; break;
-        case 'T': type = optarg; break;
-        case 'Q': theta_s = optarg; break;
-        case 'm': order_s = optarg; break;
         case 'C': curve = optarg; break;
         case 'G': plot = optarg; break;
         case 'Z': size = optarg; break;
@@ -191,31 +171,16 @@ cmd_tolerance(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 0, tolerance_usage)))
         return rc;
+    cli_design_spec sp;
     dk_design d = {0};
     dk_error err = {0};
-    if (cli_parse_waves(&wa, 1, &d.waves, &d.shg, tolerance_usage))
-        return CLI_USAGE;
+    if ((rc = cli_design_parse(&da, &sp, tolerance_usage)))
+        return rc;
     if (!len)
         return cli_usage_error(tolerance_usage, "--length is required, e.g. "
                                                 "--length 20mm");
-    double period_um = 0, theta = NAN;
-    int order = 1;
-    char *end;
-    d.temp_c = 25;
-    if (dk_parse_length(len, &d.length_mm, &err) ||
-        (temp && dk_parse_temperature(temp, &d.temp_c, &err)) ||
-        (period && dk_parse_length(period, &period_um, &err)))
+    if (dk_parse_length(len, &d.length_mm, &err))
         return cli_usage_error(tolerance_usage, "%s", err.msg);
-    period_um *= 1e3;
-    if (theta_s && (theta = strtod(theta_s, &end) * DEG, *end))
-        return cli_usage_error(tolerance_usage, "--theta '%s' must be "
-                                                "degrees",
-                               theta_s);
-    if (order_s && ((order = (int)strtol(order_s, &end, 10)) < 1 || *end))
-        return cli_usage_error(tolerance_usage, "--order must be a positive "
-                                                "whole number");
-    if (type && strcmp(type, "I") && strcmp(type, "II"))
-        return cli_usage_error(tolerance_usage, "--type must be I or II");
     const item *want = NULL;
     for (size_t i = 0; curve && i < NITEMS; i++)
         if (!strcmp(curve, items[i].key))
@@ -240,16 +205,9 @@ cmd_tolerance(int argc, char **argv)
     const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
     if (!set)
         goto done;
-    if (!temp && !dk_set_has_temperature(set))
-        d.temp_c = set->reference_temperature_c;
-    int qpm = period_um > 0 ||
-              (c->poling != DK_POLING_NONE && !type && !theta_s);
-    if (qpm ? dk_design_setup_qpm(&d, c, set, pol, order, period_um,
-                                  temp != NULL, &err)
-            : dk_design_setup_angle(&d, c, set, pol, type, theta, &err)) {
-        cli_error("%s", err.msg);
+    int qpm;
+    if (cli_design_setup(&sp, c, set, &d, &qpm))
         goto done;
-    }
 
     cli_out out;
     if (cli_out_open(&out))
