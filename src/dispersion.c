@@ -156,6 +156,27 @@ eval_jet(const dk_dispersion_set *set, const dk_axis_formula *axis,
     return 1;
 }
 
+unsigned
+dk_set_range_warnings(const dk_dispersion_set *set, double lambda_um,
+                      double temp_c)
+{
+    unsigned w = 0;
+    if (lambda_um < set->wavelength_range_um[0] ||
+        lambda_um > set->wavelength_range_um[1])
+        w |= DK_WARN_LAMBDA_RANGE;
+    if (!dk_set_has_temperature(set)) {
+        if (fabs(temp_c - set->reference_temperature_c) > 0.5)
+            w |= DK_WARN_NO_TEMP;
+    } else {
+        const double *r = set->has_thermo && set->temp_form == DK_TEMP_NONE
+                              ? set->thermo.temperature_range_c
+                              : set->temperature_range_c;
+        if (temp_c < r[0] || temp_c > r[1])
+            w |= DK_WARN_TEMP_RANGE;
+    }
+    return w;
+}
+
 dk_status
 dk_index_eval(const dk_dispersion_set *set, const dk_axis_formula *axis,
               double lambda_um, double temp_c, dk_index_value *out,
@@ -180,20 +201,7 @@ dk_index_eval(const dk_dispersion_set *set, const dk_axis_formula *axis,
     out->d2n_dl2 = 2 * nl.t[2];
     out->d3n_dl3 = 6 * nl.t[3];
     out->dn_dt = nt.t[1];
-    out->warnings = 0;
-    if (lambda_um < set->wavelength_range_um[0] ||
-        lambda_um > set->wavelength_range_um[1])
-        out->warnings |= DK_WARN_LAMBDA_RANGE;
-    if (!dk_set_has_temperature(set)) {
-        if (fabs(temp_c - set->reference_temperature_c) > 0.5)
-            out->warnings |= DK_WARN_NO_TEMP;
-    } else {
-        const double *r = set->has_thermo && set->temp_form == DK_TEMP_NONE
-                              ? set->thermo.temperature_range_c
-                              : set->temperature_range_c;
-        if (temp_c < r[0] || temp_c > r[1])
-            out->warnings |= DK_WARN_TEMP_RANGE;
-    }
+    out->warnings = dk_set_range_warnings(set, lambda_um, temp_c);
     return DK_OK;
 }
 

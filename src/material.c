@@ -8,10 +8,10 @@
 
 #include "deltak/material.h"
 
-dk_status
-dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
-                  char axis, double lambda_um, double temp_c,
-                  dk_index_value *out, dk_error *err)
+/* The axis of @set for (λ) inside @c's transparency range, or an error. */
+static dk_status
+checked_axis(const dk_crystal *c, const dk_dispersion_set *set, char axis,
+             double lambda_um, const dk_axis_formula **ax, dk_error *err)
 {
     if (!(lambda_um >= c->transparency_um[0] &&
           lambda_um <= c->transparency_um[1]))
@@ -20,13 +20,23 @@ dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
                             "%.6g-%.6g um of %s",
                             lambda_um, c->transparency_um[0],
                             c->transparency_um[1], c->id);
-    const dk_axis_formula *ax = dk_set_find_axis(set, axis);
-    if (!ax)
+    *ax = dk_set_find_axis(set, axis);
+    if (!*ax)
         return dk_error_set(err, DK_ENOTFOUND,
                             "data set '%s' of %s has no '%c' axis; pick "
                             "another set with --dispersion",
                             set->name, c->id, axis);
-    return dk_index_eval(set, ax, lambda_um, temp_c, out, err);
+    return DK_OK;
+}
+
+dk_status
+dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
+                  char axis, double lambda_um, double temp_c,
+                  dk_index_value *out, dk_error *err)
+{
+    const dk_axis_formula *ax;
+    dk_status s = checked_axis(c, set, axis, lambda_um, &ax, err);
+    return s ? s : dk_index_eval(set, ax, lambda_um, temp_c, out, err);
 }
 
 dk_status
@@ -34,19 +44,10 @@ dk_material_n(const dk_crystal *c, const dk_dispersion_set *set, char axis,
               double lambda_um, double temp_c, double *n, unsigned *warnings,
               dk_error *err)
 {
-    if (!(lambda_um >= c->transparency_um[0] &&
-          lambda_um <= c->transparency_um[1]))
-        return dk_error_set(err, DK_ERANGE,
-                            "%.6g um is outside the transparency range "
-                            "%.6g-%.6g um of %s",
-                            lambda_um, c->transparency_um[0],
-                            c->transparency_um[1], c->id);
-    const dk_axis_formula *ax = dk_set_find_axis(set, axis);
-    if (!ax)
-        return dk_error_set(err, DK_ENOTFOUND,
-                            "data set '%s' of %s has no '%c' axis; pick "
-                            "another set with --dispersion",
-                            set->name, c->id, axis);
+    const dk_axis_formula *ax;
+    dk_status s = checked_axis(c, set, axis, lambda_um, &ax, err);
+    if (s)
+        return s;
     double v = dk_index_n(set, ax, lambda_um, temp_c);
     if (!isfinite(v))
         return dk_error_set(err, DK_EDOM,
@@ -54,23 +55,8 @@ dk_material_n(const dk_crystal *c, const dk_dispersion_set *set, char axis,
                             "%.6g um, %.6g C",
                             set->name, axis, lambda_um, temp_c);
     *n = v;
-    if (warnings) {
-        unsigned w = 0;
-        if (lambda_um < set->wavelength_range_um[0] ||
-            lambda_um > set->wavelength_range_um[1])
-            w |= DK_WARN_LAMBDA_RANGE;
-        if (!dk_set_has_temperature(set)) {
-            if (fabs(temp_c - set->reference_temperature_c) > 0.5)
-                w |= DK_WARN_NO_TEMP;
-        } else {
-            const double *r = set->has_thermo && set->temp_form == DK_TEMP_NONE
-                                  ? set->thermo.temperature_range_c
-                                  : set->temperature_range_c;
-            if (temp_c < r[0] || temp_c > r[1])
-                w |= DK_WARN_TEMP_RANGE;
-        }
-        *warnings = w;
-    }
+    if (warnings)
+        *warnings = dk_set_range_warnings(set, lambda_um, temp_c);
     return DK_OK;
 }
 

@@ -145,6 +145,15 @@ const dk_axis_formula *dk_set_find_axis(const dk_dispersion_set *set,
 int dk_set_has_temperature(const dk_dispersion_set *set);
 
 /*
+ * dk_set_range_warnings:
+ * Returns: the DK_WARN_* flags for evaluating @set at (λ, T): outside the
+ * fitted wavelength or temperature range, or T ignored by a set with no
+ * temperature dependence (more than 0.5 °C from its reference).
+ */
+unsigned dk_set_range_warnings(const dk_dispersion_set *set,
+                               double lambda_um, double temp_c);
+
+/*
  * dk_index_eval:
  * @set: the data set
  * @axis: one of @set's axes
