@@ -375,10 +375,11 @@ cmd_angle(int argc, char **argv)
             if (ncpm) {
                 if (!cm.json) {
                     if (!shown)
-                        fprintf(out.f, "  noncritical (along an axis): %-6s "
-                                       "%-5s %10s %9s\n",
+                        fprintf(out.f, "  noncritical phase matching along a "
+                                       "principal axis:\n  %-6s %-5s %10s "
+                                       "%9s\n",
                                 "modes", "axis", "T C", "d_eff");
-                    fprintf(out.f, "  %31s %-5s %10.2f %9.3f\n", sol[k].pol,
+                    fprintf(out.f, "  %-6s %-5s %10.2f %9.3f\n", sol[k].pol,
                             sol[k].plane, sol[k].n[0], sol[k].deff_pm_per_v);
                 }
                 json_object *o = json_object_new_object();

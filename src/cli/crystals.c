@@ -33,19 +33,36 @@ axis_name(int i)
     return i >= 0 && i < 3 ? n[i] : "-";
 }
 
+/* The comma-separated set names of @c into @buf. */
+static void
+set_names(const dk_crystal *c, char *buf, size_t n)
+{
+    buf[0] = '\0';
+    for (int j = 0; j < c->nsets; j++) {
+        strncat(buf, c->sets[j].name, n - strlen(buf) - 2);
+        if (j + 1 < c->nsets)
+            strncat(buf, ",", n - strlen(buf) - 1);
+    }
+}
+
 static void
 print_list(FILE *f, const dk_db *db)
 {
-    fprintf(f, "%-14s %-10s %-22s %-14s %s\n", "crystal", "class",
-            "data sets", "transparency", "aliases");
+    int wid = 8, wsets = 9;
+    for (int i = 0; i < db->ncrystals; i++) {
+        char sets[256];
+        set_names(db->crystals[i], sets, sizeof sets);
+        if ((int)strlen(db->crystals[i]->id) > wid)
+            wid = (int)strlen(db->crystals[i]->id);
+        if ((int)strlen(sets) > wsets)
+            wsets = (int)strlen(sets);
+    }
+    fprintf(f, "%-*s  %-9s  %-*s  %-14s  %s\n", wid, "crystal", "class",
+            wsets, "data sets", "transparency", "aliases");
     for (int i = 0; i < db->ncrystals; i++) {
         const dk_crystal *c = db->crystals[i];
-        char sets[256] = "", range[32], aliases[256] = "";
-        for (int j = 0; j < c->nsets; j++) {
-            strncat(sets, c->sets[j].name, sizeof sets - strlen(sets) - 2);
-            if (j + 1 < c->nsets)
-                strncat(sets, ",", sizeof sets - strlen(sets) - 1);
-        }
+        char sets[256], range[32], aliases[256] = "";
+        set_names(c, sets, sizeof sets);
         for (int j = 0; j < c->naliases; j++) {
             strncat(aliases, c->aliases[j],
                     sizeof aliases - strlen(aliases) - 3);
@@ -54,8 +71,9 @@ print_list(FILE *f, const dk_db *db)
         }
         snprintf(range, sizeof range, "%g-%g um", c->transparency_um[0],
                  c->transparency_um[1]);
-        fprintf(f, "%-14s %-10s %-22s %-14s %s\n", c->id,
-                dk_optical_class_str(c->optical_class), sets, range, aliases);
+        fprintf(f, "%-*s  %-9s  %-*s  %-14s  %s\n", wid, c->id,
+                dk_optical_class_str(c->optical_class), wsets, sets, range,
+                aliases);
     }
     fprintf(f, "\n%d crystals. 'deltak crystals NAME' shows one in full.\n",
             db->ncrystals);

@@ -376,14 +376,14 @@ cmd_tolerance(int argc, char **argv)
             fprintf(out.f, "\n  %s width %.4g cm-1", d.shg ? "fundamental"
                                                            : "signal",
                     sig_cm);
+        if (isfinite(idl_nm))
+            fprintf(out.f, "; idler width %.4g nm (pump fixed)", idl_nm);
         for (size_t i = 0; i < NITEMS; i++)
             if (have[i] && !strcmp(items[i].unit, "mrad") && acc[i].bounded &&
                 isfinite(nin))
                 fprintf(out.f, "\n  %s outside the crystal: about %.4g mrad "
                                "(x n = %.4f, normal incidence)",
                         items[i].key, acc[i].fwhm * 1e3 * nin, nin);
-        if (isfinite(idl_nm))
-            fprintf(out.f, "; idler width %.4g nm (pump fixed)", idl_nm);
         fprintf(out.f, "\n\n  exact: where sinc^2(dk L/2) falls to 1/2; "
                        "first-order: 2x2.783/(L |d dk/dx|); per length: "
                        "x L (critical) or x sqrt(L) (noncritical)\n");
