@@ -248,9 +248,14 @@ cmd_chip(int argc, char **argv)
             fprintf(out.f, "\nfan-out, %.4g mm wide, oven at %.4g C: period "
                            "linear across the width\n  %8s %12s %12s\n",
                     width_mm, fan_t, "x mm", "period um", target);
-            for (int k = 0; k < npos; k++)
-                fprintf(out.f, "  %8.3f %12.4f %12.4f\n", fp[k].x_mm,
-                        fp[k].period_um, fp[k].target_um);
+            for (int k = 0; k < npos; k++) {
+                if (isfinite(fp[k].target_um))
+                    fprintf(out.f, "  %8.3f %12.4f %12.4f\n", fp[k].x_mm,
+                            fp[k].period_um, fp[k].target_um);
+                else
+                    fprintf(out.f, "  %8.3f %12.4f %12s\n", fp[k].x_mm,
+                            fp[k].period_um, "(none)");
+            }
         }
     }
     rc = cli_out_commit(&out);

@@ -475,7 +475,13 @@ cmd_sweep(int argc, char **argv)
                     z = dk_sweep_sinc2(&p);
                 zs[(size_t)j * nx + i] = z;
                 if (cm.csv || !plot)
-                    fprintf(out.f, "%.8g,%.8g,%.6g\n", xs[i], ys[j], z);
+                {
+                    /* An empty cell where the model is undefined. */
+                    if (isfinite(z))
+                        fprintf(out.f, "%.8g,%.8g,%.6g\n", xs[i], ys[j], z);
+                    else
+                        fprintf(out.f, "%.8g,%.8g,\n", xs[i], ys[j]);
+                }
             }
     } else {
         int nfam = family ? nf : 1;
