@@ -29,7 +29,7 @@ CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
-.PHONY: all deps check unit cli-tests asan demo bench plots fuzz clean help
+.PHONY: all deps check unit cli-tests asan asan-cli demo bench plots fuzz clean help
 
 all: $(BUILD)/deltak
 
@@ -83,6 +83,15 @@ asan: | $(DEPCHECK)
 
 # Every test: unit tests, command-line tests, unit tests under sanitizers.
 # Ends with one line "checks: N passed, M failed".
+# The command-line tests once more against a sanitized program.
+asan-cli: | $(DEPCHECK)
+	@$(MAKE) --no-print-directory BUILD=$(BUILD)/asan \
+	    CFLAGS="-O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=all" \
+	    DEPCHECK=$(DEPCHECK) $(BUILD)/asan/deltak
+	@LSAN_OPTIONS=suppressions=$(abspath tests/lsan.supp) \
+	    sh tests/cli/run.sh $(BUILD)/asan/deltak > $(BUILD)/asan/cli.log; \
+	    rc=$$?; sed 's/^cli:/cli-asan:/' $(BUILD)/asan/cli.log; exit $$rc
+
 check: $(BUILD)/deltak $(TEST_BIN)
 	@sh tests/check.sh "$(MAKE)" $(BUILD)
 
