@@ -157,6 +157,20 @@ dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
     return DK_OK;
 }
 
+/* The birefringent solution of @d at its operating point, described. */
+static int
+describe(dk_design *d, dk_angle_solution *sol)
+{
+    memset(sol, 0, sizeof *sol);
+    memcpy(sol->pol, d->pol, 4);
+    sol->theta_rad = d->theta_rad;
+    sol->phi_rad = d->phi_rad;
+    dk_angle_problem pb = d->angle;
+    pb.waves = d->waves;
+    pb.temp_c = d->temp_c;
+    return dk_angle_describe(&pb, sol, NULL) == DK_OK;
+}
+
 double
 dk_design_input_index(dk_design *d)
 {
@@ -169,14 +183,17 @@ dk_design_input_index(dk_design *d)
             return NAN;
         return v.n;
     }
-    dk_angle_solution sol = {0};
-    memcpy(sol.pol, d->pol, 4);
-    sol.theta_rad = d->theta_rad;
-    sol.phi_rad = d->phi_rad;
-    dk_angle_problem pb = d->angle;
-    pb.waves = d->waves;
-    pb.temp_c = d->temp_c;
-    if (dk_angle_describe(&pb, &sol, NULL))
-        return NAN;
-    return sol.n[d->shg ? 0 : 2];
+    dk_angle_solution sol;
+    return describe(d, &sol) ? sol.n[d->shg ? 0 : 2] : NAN;
+}
+
+double
+dk_design_deff(dk_design *d)
+{
+    if (d->kind == DK_DESIGN_QPM) {
+        double v;
+        return dk_qpm_deff(&d->qpm, &v, NULL) ? NAN : v;
+    }
+    dk_angle_solution sol;
+    return describe(d, &sol) ? sol.deff_pm_per_v : NAN;
 }

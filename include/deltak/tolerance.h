@@ -117,6 +117,14 @@ dk_status dk_design_tolerance(dk_design *d, dk_tol_param p,
  */
 double dk_design_input_index(dk_design *d);
 
+/*
+ * dk_design_deff:
+ * |d_eff| of @d at its operating point in pm/V (QPM: with the grating
+ * factor; birefringent: from the modes' field vectors). NAN when the
+ * crystal has no nonlinear data.
+ */
+double dk_design_deff(dk_design *d);
+
 /* The parameter value at the operating point. */
 double dk_design_operating_value(const dk_design *d, dk_tol_param p);
 

@@ -9,6 +9,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "design_args.h"
 #include "deltak/angle.h"
 #include "deltak/units.h"
 
@@ -110,14 +111,8 @@ cmd_angle(int argc, char **argv)
 {
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"pump", required_argument, NULL, 'p'},
-        {"signal", required_argument, NULL, 's'},
-        {"idler", required_argument, NULL, 'i'},
-        {"fundamental", required_argument, NULL, 'f'},
-        {"temp", required_argument, NULL, 't'},
+        CLI_DESIGN_OPTIONS,
         {"temp-range", required_argument, NULL, 'R'},
-        {"type", required_argument, NULL, 'T'},
-        {"pol", required_argument, NULL, 'P'},
         {"phi", required_argument, NULL, 'F'},
         {"noncollinear", required_argument, NULL, 'N'},
         {"magic", no_argument, NULL, 'M'},
@@ -126,24 +121,16 @@ cmd_angle(int argc, char **argv)
         {"cut", required_argument, NULL, 'X'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
-    cli_wave_args wa = {0};
-    const char *temp = NULL, *type = NULL, *pol = NULL, *phi_s = NULL,
-               *alpha_s = NULL, *cut_s = NULL, *trange = NULL;
+    cli_design_args da = {0};
+    const char *phi_s = NULL, *alpha_s = NULL, *cut_s = NULL, *trange = NULL;
     int magic = 0, ncpm = 0, curve = 0, ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
+        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
             continue;
         switch (ch) {
-        case 'p': wa.pump = optarg; break;
-        case 's': wa.signal = optarg; break;
-        case 'i': wa.idler = optarg; break;
-        case 'f': wa.fundamental = optarg; break;
-        case 't': temp = optarg; break;
         case 'R': trange = optarg; break;
-        case 'T': type = optarg; break;
-        case 'P': pol = optarg; break;
         case 'F': phi_s = optarg; break;
         case 'N': alpha_s = optarg; break;
         case 'M': magic = 1; break;
@@ -159,15 +146,22 @@ cmd_angle(int argc, char **argv)
     if (cm.csv)
         return cli_usage_error(angle_usage, "--csv is not offered here; use "
                                             "--json");
+    if (da.period || da.theta || da.order)
+        return cli_usage_error(angle_usage, "--period, --order and --theta "
+                                            "do not apply to 'angle' (it "
+                                            "solves for the angle)");
+    cli_design_spec sp;
+    if ((rc = cli_design_parse(&da, &sp, 1, angle_usage)))
+        return rc;
     dk_angle_problem pb = {0};
     dk_error err = {0};
-    if (cli_parse_waves(&wa, 1, &pb.waves, &pb.shg, angle_usage))
-        return CLI_USAGE;
-    pb.temp_c = 25;
+    pb.waves = sp.waves;
+    pb.shg = sp.shg;
+    pb.temp_c = sp.temp_c;
+    const char *temp = da.temp, *pol = sp.pol, *type = sp.type;
     double phi = NAN, cut = NAN, trg[2] = {NAN, NAN};
     char *end;
-    if ((temp && dk_parse_temperature(temp, &pb.temp_c, &err)) ||
-        (trange && cli_parse_range(trange, 0, trg, &err)))
+    if (trange && cli_parse_range(trange, 0, trg, &err))
         return cli_usage_error(angle_usage, "%s", err.msg);
     if (phi_s && (phi = strtod(phi_s, &end) * DEG, *end))
         return cli_usage_error(angle_usage, "--phi '%s' must be degrees, "
@@ -180,10 +174,6 @@ cmd_angle(int argc, char **argv)
         return cli_usage_error(angle_usage, "--noncollinear '%s' must be "
                                             "degrees below 45",
                                alpha_s);
-    if (type && strcmp(type, "I") && strcmp(type, "II") &&
-        strcmp(type, "1") && strcmp(type, "2"))
-        return cli_usage_error(angle_usage, "--type '%s' must be I or II",
-                               type);
     if (pol && strlen(pol) != 3)
         return cli_usage_error(angle_usage, "--pol '%s' must have three "
                                             "letters (signal idler pump)",
@@ -191,9 +181,7 @@ cmd_angle(int argc, char **argv)
     if (magic && alpha_s)
         return cli_usage_error(angle_usage, "choose one of --magic and "
                                             "--noncollinear");
-    const char *want_type = !type                ? NULL
-                            : type[0] == '2' || !strcmp(type, "II") ? "II"
-                                                                     : "I";
+    const char *want_type = type;
 
     dk_db *db = NULL;
     if (cli_load_db(&db))

@@ -28,7 +28,7 @@ cli_design_option(int ch, cli_design_args *a)
 
 int
 cli_design_parse(const cli_design_args *a, cli_design_spec *sp,
-                 const char *const usage[])
+                 int need_waves, const char *const usage[])
 {
     dk_error err = {0};
     memset(sp, 0, sizeof *sp);
@@ -36,8 +36,17 @@ cli_design_parse(const cli_design_args *a, cli_design_spec *sp,
     sp->theta_rad = NAN;
     sp->pol = a->pol;
     sp->type = a->type;
-    if (cli_parse_waves(&a->waves, 1, &sp->waves, &sp->shg, usage))
+    const cli_wave_args *w = &a->waves;
+    int given = !!w->pump + !!w->signal + !!w->idler;
+    if (cli_parse_waves(w, need_waves, &sp->waves, &sp->shg, usage))
         return CLI_USAGE;
+    if (!need_waves && !sp->shg && given > 2)
+        return cli_usage_error(usage, "give at most two of --pump, --signal "
+                                      "and --idler");
+    if (!need_waves && !sp->shg && given == 2 &&
+        dk_waves_complete(&sp->waves, &err))
+        return cli_usage_error(usage, "%s", err.msg);
+    sp->held = w->signal ? 1 : w->idler ? 2 : 0;
     if ((a->temp && dk_parse_temperature(a->temp, &sp->temp_c, &err)) ||
         (a->period && dk_parse_length(a->period, &sp->period_um, &err)))
         return cli_usage_error(usage, "%s", err.msg);

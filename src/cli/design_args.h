@@ -39,17 +39,20 @@ typedef struct cli_design_spec {
     double theta_rad;    /* NAN when not given */
     int order;           /* QPM order, 1 when not given */
     const char *pol, *type;
+    int held;            /* 1: --signal given, 2: --idler given, 0: neither */
 } cli_design_spec;
 
 /* Take a design option (getopt code @ch); returns 1 if it was one. */
 int cli_design_option(int ch, cli_design_args *a);
 
 /*
- * Read the design options into @sp (two waves, or --fundamental, are
- * required). Returns 0, or CLI_USAGE after printing the error and usage.
+ * Read the design options into @sp. With @need_waves two waves (or
+ * --fundamental) are required and the third is filled in; without, any
+ * of them may be given (two are still completed). Returns 0, or
+ * CLI_USAGE after printing the error and usage.
  */
 int cli_design_parse(const cli_design_args *a, cli_design_spec *sp,
-                     const char *const usage[]);
+                     int need_waves, const char *const usage[]);
 
 /*
  * Put @d (length set by the caller) at its operating point for crystal

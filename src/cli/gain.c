@@ -44,28 +44,6 @@ static const char *const gain_usage[] = {
 #define DEG (M_PI / 180)
 #define NSPEC 241
 
-/* d_eff of the design at its operating point, pm/V. */
-static double
-design_deff(dk_design *d)
-{
-    double v = NAN;
-    if (d->kind == DK_DESIGN_QPM) {
-        if (dk_qpm_deff(&d->qpm, &v, NULL))
-            return NAN;
-        return v;
-    }
-    dk_angle_solution sol = {0};
-    memcpy(sol.pol, d->pol, 4);
-    sol.theta_rad = d->theta_rad;
-    sol.phi_rad = d->phi_rad;
-    dk_angle_problem pb = d->angle;
-    pb.waves = d->waves;
-    pb.temp_c = d->temp_c;
-    if (dk_angle_describe(&pb, &sol, NULL))
-        return NAN;
-    return sol.deff_pm_per_v;
-}
-
 static void
 damage_check(const dk_crystal *c, double gw_per_cm2)
 {
@@ -121,7 +99,7 @@ cmd_gain(int argc, char **argv)
     cli_design_spec sp;
     dk_design d = {0};
     dk_error err = {0};
-    if ((rc = cli_design_parse(&da, &sp, gain_usage)))
+    if ((rc = cli_design_parse(&da, &sp, 1, gain_usage)))
         return rc;
     d.shg = sp.shg;
     if (!len)
@@ -171,7 +149,7 @@ cmd_gain(int argc, char **argv)
         cli_error("%s", err.msg);
         goto done;
     }
-    double deff = design_deff(&d);
+    double deff = dk_design_deff(&d);
     if (!isfinite(deff) || deff == 0) {
         cli_error("%s has no usable d_eff for this design (check the "
                   "crystal file's nonlinear coefficients)",

@@ -82,7 +82,7 @@ cmd_pulse(int argc, char **argv)
     cli_design_spec sp;
     dk_error err = {0};
     double tau = NAN, waist_mm = NAN, len_mm = NAN;
-    if ((rc = cli_design_parse(&da, &sp, pulse_usage)))
+    if ((rc = cli_design_parse(&da, &sp, 1, pulse_usage)))
         return rc;
     if ((dur_s && dk_parse_duration(dur_s, &tau, &err)) ||
         (waist_s && dk_parse_length(waist_s, &waist_mm, &err)) ||

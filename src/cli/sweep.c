@@ -11,6 +11,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "design_args.h"
 #include "deltak/plot.h"
 #include "deltak/pulse.h"
 #include "deltak/sweep.h"
@@ -229,23 +230,12 @@ eval_point(dk_sweep *s, enum analysis an, dk_var target, int keep_period,
         pt->y[0] = dk_sweep_sinc2(s);
         pt->n = isfinite(pt->y[0]);
         return 0;
-    case AN_DEFF: {
+    case AN_DEFF:
         if (s->d.kind != DK_DESIGN_ANGLE)
             return -1;
-        dk_angle_solution sol = {0};
-        memcpy(sol.pol, s->d.pol, 4);
-        sol.theta_rad = s->d.theta_rad;
-        sol.phi_rad = s->d.phi_rad;
-        dk_angle_problem pb = s->d.angle;
-        pb.waves = s->d.waves;
-        pb.temp_c = s->d.temp_c;
-        if (dk_angle_describe(&pb, &sol, NULL) ||
-            !isfinite(sol.deff_pm_per_v))
-            return -1;
-        pt->y[0] = sol.deff_pm_per_v;
-        pt->n = 1;
+        pt->y[0] = dk_design_deff(&s->d);
+        pt->n = isfinite(pt->y[0]);
         return 0;
-    }
     case AN_GVM: {
         dk_pulse_props pp;
         if (dk_sweep_rephase(s, keep_period, NULL) ||
@@ -275,15 +265,7 @@ cmd_sweep(int argc, char **argv)
 {
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"pump", required_argument, NULL, 'p'},
-        {"signal", required_argument, NULL, 's'},
-        {"idler", required_argument, NULL, 'i'},
-        {"fundamental", required_argument, NULL, 'f'},
-        {"temp", required_argument, NULL, 't'},
-        {"period", required_argument, NULL, 'P'},
-        {"type", required_argument, NULL, 'T'},
-        {"pol", required_argument, NULL, 'o'},
-        {"theta", required_argument, NULL, 'Q'},
+        CLI_DESIGN_OPTIONS,
         {"length", required_argument, NULL, 'L'},
         {"vary", required_argument, NULL, 'V'},
         {"solve", required_argument, NULL, 'S'},
@@ -293,26 +275,16 @@ cmd_sweep(int argc, char **argv)
         {"size", required_argument, NULL, 'Z'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
-    cli_wave_args wa = {0};
-    const char *temp = NULL, *period = NULL, *type = NULL, *pol = NULL,
-               *theta_s = NULL, *len = NULL, *vary = NULL, *solve = NULL,
-               *family = NULL, *map = NULL, *plot = NULL, *size = "single";
+    cli_design_args da = {0};
+    const char *len = NULL, *vary = NULL, *solve = NULL, *family = NULL,
+               *map = NULL, *plot = NULL, *size = "single";
     int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
+        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
             continue;
         switch (ch) {
-        case 'p': wa.pump = optarg; break;
-        case 's': wa.signal = optarg; break;
-        case 'i': wa.idler = optarg; break;
-        case 'f': wa.fundamental = optarg; break;
-        case 't': temp = optarg; break;
-        case 'P': period = optarg; break;
-        case 'T': type = optarg; break;
-        case 'o': pol = optarg; break;
-        case 'Q': theta_s = optarg; break;
         case 'L': len = optarg; break;
         case 'V': vary = optarg; break;
         case 'S': solve = optarg; break;
@@ -361,27 +333,16 @@ cmd_sweep(int argc, char **argv)
             return cli_usage_error(sweep_usage, "%s", err.msg);
     }
     dk_sweep sw = {0};
-    if (cli_parse_waves(&wa, 0, &sw.d.waves, &sw.d.shg, sweep_usage))
-        return CLI_USAGE;
-    int given = (wa.pump != NULL) + (wa.signal != NULL) + (wa.idler != NULL);
-    if (!sw.d.shg && given == 2 &&
-        dk_waves_complete(&sw.d.waves, &err))
-        return cli_usage_error(sweep_usage, "%s", err.msg);
-    if (!sw.d.shg && given > 2)
-        return cli_usage_error(sweep_usage, "give at most two of --pump, "
-                                            "--signal and --idler");
-    sw.held = wa.signal ? 1 : wa.idler ? 2 : 0;
-    double period_um = 0, theta = NAN;
-    char *end;
-    sw.d.temp_c = 25;
+    cli_design_spec sp;
+    if ((rc = cli_design_parse(&da, &sp, 0, sweep_usage)))
+        return rc;
+    sw.d.waves = sp.waves;
+    sw.d.shg = sp.shg;
+    sw.held = sp.held;
+    sw.d.temp_c = sp.temp_c;
     sw.d.length_mm = 10;
-    if ((temp && dk_parse_temperature(temp, &sw.d.temp_c, &err)) ||
-        (period && dk_parse_length(period, &period_um, &err)) ||
-        (len && dk_parse_length(len, &sw.d.length_mm, &err)))
+    if (len && dk_parse_length(len, &sw.d.length_mm, &err))
         return cli_usage_error(sweep_usage, "%s", err.msg);
-    period_um *= 1e3;
-    if (theta_s && (theta = strtod(theta_s, &end) * DEG, *end))
-        return cli_usage_error(sweep_usage, "--theta must be degrees");
     if ((map || an == AN_SINC2) && !len)
         return cli_usage_error(sweep_usage, "sinc^2 needs --length");
 
@@ -399,8 +360,9 @@ cmd_sweep(int argc, char **argv)
     int angular = xv == DK_VAR_THETA || xv == DK_VAR_PHI ||
                   target == DK_VAR_THETA || an == AN_DEFF ||
                   (map && (yv == DK_VAR_THETA || yv == DK_VAR_PHI));
-    int qpm = c->poling != DK_POLING_NONE && !type && !theta_s && !angular;
-    if (!temp && !dk_set_has_temperature(set))
+    int qpm = c->poling != DK_POLING_NONE && !sp.type &&
+              !isfinite(sp.theta_rad) && !angular;
+    if (!sp.have_temp && !dk_set_has_temperature(set))
         sw.d.temp_c = set->reference_temperature_c;
     const double *tr = set->temp_form == DK_TEMP_NONE
                            ? set->thermo.temperature_range_c
@@ -412,24 +374,26 @@ cmd_sweep(int argc, char **argv)
                                 sw.d.waves.pump_um > 0);
     if (qpm) {
         sw.d.kind = DK_DESIGN_QPM;
-        if (dk_qpm_init(&sw.d.qpm, c, set, pol, 1, 0.5, 25, &err)) {
+        if (dk_qpm_init(&sw.d.qpm, c, set, sp.pol, sp.order, 0.5, 25,
+                        &err)) {
             cli_error("%s", err.msg);
             goto done;
         }
-        sw.d.period_um = period_um;
-        if (!(period_um > 0) && complete &&
+        sw.d.period_um = sp.period_um;
+        if (!(sp.period_um > 0) && complete &&
             dk_sweep_rephase(&sw, 0, &err)) {
             cli_error("%s", err.msg);
             goto done;
         }
     } else {
         if (complete) {
-            if (dk_design_setup_angle(&sw.d, c, set, pol, type, theta, &err)) {
+            if (dk_design_setup_angle(&sw.d, c, set, sp.pol, sp.type,
+                                      sp.theta_rad, &err)) {
                 cli_error("%s", err.msg);
                 goto done;
             }
         } else {
-            if (!pol) {
+            if (!sp.pol) {
                 cli_error("give --pol (modes of signal, idler, pump) or both "
                           "of two waves, so the modes can be chosen");
                 goto done;
@@ -437,11 +401,11 @@ cmd_sweep(int argc, char **argv)
             sw.d.kind = DK_DESIGN_ANGLE;
             sw.d.angle = (dk_angle_problem){c, set, sw.d.waves, sw.d.shg,
                                             sw.d.temp_c, 0, 0};
-            snprintf(sw.d.pol, sizeof sw.d.pol, "%s", pol);
-            sw.d.theta_rad = isfinite(theta) ? theta : 0;
+            snprintf(sw.d.pol, sizeof sw.d.pol, "%s", sp.pol);
+            sw.d.theta_rad = isfinite(sp.theta_rad) ? sp.theta_rad : 0;
         }
     }
-    int keep_period = period_um > 0 || xv == DK_VAR_PERIOD ||
+    int keep_period = sp.period_um > 0 || xv == DK_VAR_PERIOD ||
                       (family && fv == DK_VAR_PERIOD);
 
     xs = calloc(nx, sizeof *xs);

@@ -174,7 +174,7 @@ cmd_tolerance(int argc, char **argv)
     cli_design_spec sp;
     dk_design d = {0};
     dk_error err = {0};
-    if ((rc = cli_design_parse(&da, &sp, tolerance_usage)))
+    if ((rc = cli_design_parse(&da, &sp, 1, tolerance_usage)))
         return rc;
     if (!len)
         return cli_usage_error(tolerance_usage, "--length is required, e.g. "
