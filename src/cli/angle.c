@@ -415,8 +415,7 @@ cmd_angle(int argc, char **argv)
             fprintf(out.f, "  no phase matching%s\n",
                     ncpm ? " along X, Y or Z in the temperature range"
                          : " in any direction");
-        if (pb.warnings)
-            cli_warn_index(pb.set, pb.warnings, pb.waves.idler_um, pb.temp_c);
+        cli_warn_index(pb.set, pb.warnings, pb.waves.idler_um, pb.temp_c);
         pb.warnings = 0;
         json_object *so = json_object_new_object();
         json_object_object_add(so, "dispersion",

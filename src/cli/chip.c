@@ -145,8 +145,7 @@ cmd_chip(int argc, char **argv)
         cli_error("%s", err.msg);
         goto done;
     }
-    if (q.warnings)
-        cli_warn_index(set, q.warnings, q.warn_lambda_um, q.warn_temp_c);
+    cli_warn_index(set, q.warnings, q.warn_lambda_um, q.warn_temp_c);
     cli_warn_caution(c, oven_c[0]);
     cli_warn_caution(c, oven_c[1]);
     if (fan) {

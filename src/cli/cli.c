@@ -72,6 +72,10 @@ cli_warn_index(const dk_dispersion_set *set, unsigned flags, double lambda_um,
                double temp_c)
 {
     char buf[1024];
+    if (set->from_memory)
+        cli_warn("data set '%s' is typed from memory and not yet checked "
+                 "against an independent source (see 'deltak crystals')",
+                 set->name);
     if (!dk_warning_text(set, flags, lambda_um, temp_c, buf, sizeof buf))
         return;
     for (char *line = strtok(buf, "\n"); line; line = strtok(NULL, "\n"))
@@ -136,8 +140,10 @@ const dk_dispersion_set *
 cli_find_set(const dk_crystal *c, const char *name)
 {
     const dk_dispersion_set *s = dk_crystal_find_set(c, name);
-    if (s)
+    if (s) {
+        cli_warn_index(s, 0, 0, 0);
         return s;
+    }
     fprintf(stderr, "error: %s has no data set '%s'; its sets are:", c->id,
             name);
     for (int i = 0; i < c->nsets; i++)

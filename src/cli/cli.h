@@ -48,7 +48,8 @@ void cli_warnings_to_json(json_object *obj);
 /* Print the recorded warnings on stderr as "warning: ..." and forget them. */
 void cli_warnings_flush(void);
 
-/* Record the range warnings of one index evaluation. */
+/* Record the range warnings of one index evaluation, and that @set is
+ * typed from memory when it is. */
 void cli_warn_index(const dk_dispersion_set *set, unsigned flags,
                     double lambda_um, double temp_c);
 

@@ -140,8 +140,7 @@ solve_set(const request *rq, const dk_dispersion_set *set, result *r,
         cli_warn("skipped data set '%s': %s", set->name, err.msg);
         return 0;
     }
-    if (q.warnings)
-        cli_warn_index(set, q.warnings,
+    cli_warn_index(set, q.warnings,
                        q.warn_lambda_um > 0 ? q.warn_lambda_um
                                             : rq->w.pump_um,
                        q.warn_temp_c);
