@@ -6,6 +6,7 @@
  * uniaxial closed forms, the biaxial principal-plane closed form. Outside
  * checks name their source beside them.
  */
+#define DK_TEST_WITH_DB
 #include "testutil.h"
 
 #include "deltak/angle.h"
@@ -14,24 +15,6 @@
 #include "deltak/nonlinear.h"
 
 #define DEG (M_PI / 180)
-
-static dk_db *db;
-
-static int
-setup(void **state)
-{
-    (void)state;
-    dk_error err = {0};
-    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
-}
-
-static int
-teardown(void **state)
-{
-    (void)state;
-    dk_db_free(db);
-    return 0;
-}
 
 static double
 principal(const dk_crystal *c, char axis, double lam, double t)
@@ -321,5 +304,5 @@ main(void)
         cmocka_unit_test(lbo_noncritical_temperature),
         cmocka_unit_test(external_angles_and_errors),
     };
-    return cmocka_run_group_tests_name("angle", tests, setup, teardown);
+    return cmocka_run_group_tests_name("angle", tests, db_setup, db_teardown);
 }

@@ -13,31 +13,13 @@
 #include <gsl/gsl_deriv.h>
 #include <gsl/gsl_errno.h>
 
+#define DK_TEST_WITH_DB
 #include "testutil.h"
 
 #include "deltak/crystal.h"
 #include "deltak/group.h"
 #include "deltak/material.h"
 #include "deltak/units.h"
-
-static dk_db *db;
-
-static int
-setup(void **state)
-{
-    (void)state;
-    dk_error err = {0};
-    gsl_set_error_handler_off();
-    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
-}
-
-static int
-teardown(void **state)
-{
-    (void)state;
-    dk_db_free(db);
-    return 0;
-}
 
 /* One hand-built axis of one term, evaluated at λ = 1.3 µm. */
 static double
@@ -305,5 +287,5 @@ main(void)
         cmocka_unit_test(thermo_optic_published),
         cmocka_unit_test(transparency_and_ranges),
     };
-    return cmocka_run_group_tests_name("dispersion", tests, setup, teardown);
+    return cmocka_run_group_tests_name("dispersion", tests, db_setup, db_teardown);
 }

@@ -4,6 +4,7 @@
  */
 #include <gsl/gsl_deriv.h>
 
+#define DK_TEST_WITH_DB
 #include "testutil.h"
 
 #include "deltak/crystal.h"
@@ -13,24 +14,6 @@
 #include "deltak/units.h"
 
 #define DEG (M_PI / 180)
-
-static dk_db *db;
-
-static int
-setup(void **state)
-{
-    (void)state;
-    dk_error err = {0};
-    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
-}
-
-static int
-teardown(void **state)
-{
-    (void)state;
-    dk_db_free(db);
-    return 0;
-}
 
 static dk_design
 bbo_shg(double fund)
@@ -146,5 +129,5 @@ main(void)
         cmocka_unit_test(lengths),
         cmocka_unit_test(qpm_waves),
     };
-    return cmocka_run_group_tests_name("pulse", tests, setup, teardown);
+    return cmocka_run_group_tests_name("pulse", tests, db_setup, db_teardown);
 }

@@ -4,28 +4,11 @@
  * Checks against outside values name their source beside them; the rest
  * are round trips and the mathematics of the solvers.
  */
+#define DK_TEST_WITH_DB
 #include "testutil.h"
 
 #include "deltak/crystal.h"
 #include "deltak/qpm.h"
-
-static dk_db *db;
-
-static int
-setup(void **state)
-{
-    (void)state;
-    dk_error err = {0};
-    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
-}
-
-static int
-teardown(void **state)
-{
-    (void)state;
-    dk_db_free(db);
-    return 0;
-}
 
 static void
 init(dk_qpm *q, const char *crystal, const char *set, const char *pol)
@@ -276,5 +259,5 @@ main(void)
         cmocka_unit_test(thermal_expansion_of_period),
         cmocka_unit_test(deff_and_errors),
     };
-    return cmocka_run_group_tests_name("qpm", tests, setup, teardown);
+    return cmocka_run_group_tests_name("qpm", tests, db_setup, db_teardown);
 }

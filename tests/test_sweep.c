@@ -3,6 +3,7 @@
  * (deltak/gain_spectrum.h): round trips against the solvers they call,
  * energy conservation, and the limits of the gain formula.
  */
+#define DK_TEST_WITH_DB
 #include "testutil.h"
 
 #include "deltak/crystal.h"
@@ -10,24 +11,6 @@
 #include "deltak/pulse.h"
 #include "deltak/sweep.h"
 #include "deltak/units.h"
-
-static dk_db *db;
-
-static int
-setup(void **state)
-{
-    (void)state;
-    dk_error err = {0};
-    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
-}
-
-static int
-teardown(void **state)
-{
-    (void)state;
-    dk_db_free(db);
-    return 0;
-}
 
 static dk_sweep
 qpm_sweep(double pump, double period, double temp)
@@ -151,5 +134,5 @@ main(void)
         cmocka_unit_test(angle_theta_matches_solver),
         cmocka_unit_test(gain_spectrum),
     };
-    return cmocka_run_group_tests_name("sweep", tests, setup, teardown);
+    return cmocka_run_group_tests_name("sweep", tests, db_setup, db_teardown);
 }

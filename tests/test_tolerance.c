@@ -3,6 +3,7 @@
  * deltak/tolerance.h): the mathematics of sinc², closed forms, scaling
  * with length, and values handbooks quote.
  */
+#define DK_TEST_WITH_DB
 #include "testutil.h"
 
 #include "deltak/crystal.h"
@@ -12,24 +13,6 @@
 
 #define DEG (M_PI / 180)
 #define U2 (2 * DK_SINC2_HALF_U)   /* 2.78311: |Δk| L at half maximum */
-
-static dk_db *db;
-
-static int
-setup(void **state)
-{
-    (void)state;
-    dk_error err = {0};
-    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
-}
-
-static int
-teardown(void **state)
-{
-    (void)state;
-    dk_db_free(db);
-    return 0;
-}
 
 static double
 lin(double x, void *p)
@@ -235,5 +218,5 @@ main(void)
         cmocka_unit_test(length_scaling),
         cmocka_unit_test(ktp_handbook),
     };
-    return cmocka_run_group_tests_name("tolerance", tests, setup, teardown);
+    return cmocka_run_group_tests_name("tolerance", tests, db_setup, db_teardown);
 }

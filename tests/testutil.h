@@ -25,4 +25,30 @@
         }                                                                     \
     } while (0)
 
+#ifdef DK_TEST_WITH_DB
+/* The shipped crystal database, loaded once per test group. */
+#include <gsl/gsl_errno.h>
+
+#include "deltak/crystal.h"
+
+static dk_db *db;
+
+static int
+db_setup(void **state)
+{
+    (void)state;
+    dk_error err = {0};
+    gsl_set_error_handler_off();
+    return dk_db_load(DK_CRYSTAL_DIR, &db, &err) == DK_OK ? 0 : -1;
+}
+
+static int
+db_teardown(void **state)
+{
+    (void)state;
+    dk_db_free(db);
+    return 0;
+}
+#endif
+
 #endif /* DK_TESTUTIL_H */
