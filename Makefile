@@ -22,7 +22,7 @@ ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) -Iinclude -Isrc \
              -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
 LDLIBS_ALL = $(PKG_LIBS) -lm
 
-LIB_SRC := $(wildcard src/*.c)
+LIB_SRC := $(filter-out src/cli/%,$(wildcard src/*/*.c))
 CLI_SRC := $(wildcard src/cli/*.c)
 LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)

@@ -1,6 +1,6 @@
 /*
  * test_crystal_load.c - the crystal database and its schema checks
- * (deltak/crystal.h, src/crystal_load.c).
+ * (deltak/crystal.h, src/data/crystal_load.c).
  *
  * Every shipped file must load; every malformed fixture in tests/data/bad
  * must fail with DK_EPARSE and a message naming file, line and column.

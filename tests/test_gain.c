@@ -1,7 +1,7 @@
 /*
  * test_gain.c - conversion efficiency and parametric gain
- * (deltak/gain.h: src/gain_parametric.c, src/gain_focus.c,
- * src/gain_depletion.c).
+ * (deltak/gain.h: src/analyses/gain_parametric.c, src/analyses/gain_focus.c,
+ * src/analyses/gain_depletion.c).
  *
  * Sources of the expected values, named beside each check:
  *   - Boyd & Kleinman, J. Appl. Phys. 39, 3597 (1968) (BK 1968);
@@ -406,7 +406,7 @@ bk_maxima(void **state)
         assert_true(h < prev); /* h_mm falls with B (BK 1968) */
         prev = h;
     }
-    /* For B ≫ 1, h ≈ (√π/2) atan(ξ)/(B√ξ) (derived in src/gain_focus.c),
+    /* For B ≫ 1, h ≈ (√π/2) atan(ξ)/(B√ξ) (derived in src/analyses/gain_focus.c),
      * maximal at ξ = 1.3917452, the root of 2ξ/(1+ξ²) = atan ξ, where
      * h·B = 0.7119632 (both by scipy brentq, this project); BK 1968 give
      * the same large-B optimum ξ = 1.392 (from memory). */
@@ -640,7 +640,7 @@ elljac(double u, double mpar, double *sn, double *cn, double *dn)
  * units the equations give, with the phases locked as they are when one
  * wave starts at zero, (dN/dz)² = 4K² N1 N2 N3 and the Manley–Rowe
  * integrals; K²N_j is the Γ² of dk_opa_gamma_per_mm with wave j as the
- * "pump" (shown in src/gain_depletion.c).
+ * "pump" (shown in src/analyses/gain_depletion.c).
  *
  * SFG, N3(0) = 0, m1 = N1(0) ≤ m2 = N2(0): N3 = m1 − N1 and
  *   N3(z) = m1 sn²(K √m2 z | m1/m2)

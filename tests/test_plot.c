@@ -14,7 +14,7 @@
 #include <unistd.h>
 
 #include "deltak/plot.h"
-#include "plot_internal.h"
+#include "figures/plot_internal.h"
 
 static char tmpdir[64];
 

@@ -2,7 +2,7 @@
  * crystal.h - a crystal of the database and the database itself.
  *
  * A crystal is read from one YAML file (schema: crystals/README.md) by
- * the only module that calls libyaml (src/crystal_load.c). All strings
+ * the only module that calls libyaml (src/data/crystal_load.c). All strings
  * and arrays of a crystal live in one arena freed by dk_crystal_free().
  */
 #ifndef DK_CRYSTAL_H

@@ -5,13 +5,13 @@
  * Δk). Nothing here reads the crystal database.
  *
  * Three parts, one source file each:
- *   src/gain_parametric.c  plane waves, undepleted pump: OPA coupling Γ,
+ *   src/analyses/gain_parametric.c  plane waves, undepleted pump: OPA coupling Γ,
  *                          signal gain G(Γ, Δk, L), gain bandwidth, and
  *                          low-conversion SHG / SFG / DFG efficiency;
- *   src/gain_focus.c       focused Gaussian beams: the Boyd–Kleinman
+ *   src/analyses/gain_focus.c       focused Gaussian beams: the Boyd–Kleinman
  *                          function h(σ, ξ, B), its maximum over σ and the
  *                          optimum focusing ξ, with the helpers B and ξ;
- *   src/gain_depletion.c   plane waves with pump depletion: the coupled-
+ *   src/analyses/gain_depletion.c   plane waves with pump depletion: the coupled-
  *                          wave equations integrated with GSL's ODE solver.
  *
  * Conventions shared by all three:
@@ -36,7 +36,7 @@
 /* Reduced Planck constant, J s (exact in the 2019 SI). */
 #define DK_HBAR_J_S 1.054571817e-34
 
-/* ---- Plane waves, undepleted pump (src/gain_parametric.c) ---------- */
+/* ---- Plane waves, undepleted pump (src/analyses/gain_parametric.c) ---------- */
 
 /*
  * dk_opa_gamma_per_mm:
@@ -168,7 +168,7 @@ dk_status dk_mixing_intensity_gw_per_cm2(double deff_pm_per_v, double n_a,
                                          double *out_gw_per_cm2,
                                          dk_error *err);
 
-/* ---- Focused Gaussian beams: Boyd–Kleinman (src/gain_focus.c) ------ */
+/* ---- Focused Gaussian beams: Boyd–Kleinman (src/analyses/gain_focus.c) ------ */
 
 /*
  * dk_bk_h:
@@ -286,7 +286,7 @@ dk_status dk_bk_shg_efficiency(double deff_pm_per_v, double n_fund,
                                double fund_w, double h, double *eta,
                                dk_error *err);
 
-/* ---- Plane waves with depletion (src/gain_depletion.c) ------------- */
+/* ---- Plane waves with depletion (src/analyses/gain_depletion.c) ------------- */
 
 /* One wave at the entrance face. */
 typedef struct dk_twm_wave {

@@ -12,7 +12,7 @@
 #include <string.h>
 #include <strings.h>
 
-#include "arena.h"
+#include "core/arena.h"
 #include "deltak/crystal.h"
 
 void

@@ -16,7 +16,7 @@
 #include <strings.h>
 #include <yaml.h>
 
-#include "arena.h"
+#include "core/arena.h"
 #include "deltak/crystal.h"
 
 typedef struct ctx {

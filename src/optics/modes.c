@@ -4,7 +4,7 @@
  *
  * The 2×2 projected impermeability M = Pᵀ diag(a) P (a_i = 1/n_i², P an
  * orthonormal basis of the plane normal to s) is evaluated in truncated
- * Taylor arithmetic in λ (src/jet.h) so that the eigen-indices carry their
+ * Taylor arithmetic in λ (src/data/jet.h) so that the eigen-indices carry their
  * exact λ-derivatives at fixed direction, which the group index, GVD and
  * GVM of extraordinary waves need. On an optic axis the two eigenvalues
  * coincide; there the derivative of the square root is singular and the
@@ -15,7 +15,7 @@
 
 #include "deltak/material.h"
 #include "deltak/modes.h"
-#include "jet.h"
+#include "data/jet.h"
 
 #define DEGENERATE 1e-14   /* relative eigenvalue split below which the
                             * two modes count as degenerate */

@@ -2,7 +2,7 @@
  * dispersion.c - evaluate one axis of a published dispersion data set.
  *
  * Method: the formula is evaluated once in truncated Taylor arithmetic
- * (src/jet.h) with λ as the independent variable, which gives n, dn/dλ,
+ * (src/data/jet.h) with λ as the independent variable, which gives n, dn/dλ,
  * d²n/dλ² and d³n/dλ³ exactly (no finite-difference step); a second pass
  * with T as the variable gives dn/dT. The term kinds and the temperature
  * variable are described in deltak/dispersion.h; the published forms they
