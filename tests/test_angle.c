@@ -135,7 +135,7 @@ first_angle(const char *crystal, const char *set, dk_waves w, int shg,
     dk_angle_solution sol[DK_ANGLE_MAX_SOL];
     int n;
     dk_error err = {0};
-    assert_int_equal(dk_angle_solve(&pb, NAN, pol, sol, DK_ANGLE_MAX_SOL, &n,
+    assert_int_equal(dk_angle_solve(&pb, &(dk_angle_search){pol, NAN, NULL}, sol, DK_ANGLE_MAX_SOL, &n,
                                     &err),
                      DK_OK);
     for (int i = 0; i < n; i++)
@@ -207,7 +207,7 @@ bbo_walkoff_and_deff(void **state)
     dk_angle_problem pb = {c, &c->sets[0], dk_waves_shg(1.064), 1, 25, 0, 0};
     dk_angle_solution sol[8];
     int n;
-    assert_int_equal(dk_angle_solve(&pb, NAN, "ooe", sol, 8, &n, NULL),
+    assert_int_equal(dk_angle_solve(&pb, &(dk_angle_search){"ooe", NAN, NULL}, sol, 8, &n, NULL),
                      DK_OK);
     assert_int_equal(n, 1);
     assert_within(sol[0].walkoff_rad[2] * 1e3, 55.7, 0, 1.0);
@@ -238,7 +238,7 @@ magic_angle(void **state)
     dk_angle_problem pb = {c, &c->sets[0], {0.4, 0.6, 1.2}, 0, 25, 0, 0};
     double a, th;
     dk_error err = {0};
-    assert_int_equal(dk_angle_magic_alpha(&pb, "ooe", 0, 20 * DEG, &a, &th,
+    assert_int_equal(dk_angle_magic_alpha(&pb, "ooe", 0, 1, 20 * DEG, &a, &th,
                                           &err),
                      DK_OK);
     assert_within(a / DEG, 3.7, 0, 0.25);
@@ -287,7 +287,7 @@ external_angles_and_errors(void **state)
     dk_angle_solution sol[4];
     int n;
     dk_error err = {0};
-    assert_int_equal(dk_angle_solve(&pb, NAN, NULL, sol, 4, &n, &err),
+    assert_int_equal(dk_angle_solve(&pb, &(dk_angle_search){NULL, NAN, NULL}, sol, 4, &n, &err),
                      DK_EINVAL);
     assert_non_null(strstr(err.msg, "isotropic"));
 }

@@ -15,19 +15,13 @@
 
 #define DEG (M_PI / 180)
 
-static dk_design
+static dk_design d;
+
+static void
 bbo_shg(double fund)
 {
-    const dk_crystal *c = dk_db_find(db, "BBO");
-    dk_design d = {0};
-    d.waves = dk_waves_shg(fund);
-    d.shg = 1;
-    d.temp_c = 25;
-    d.length_mm = 1;
-    assert_int_equal(dk_design_setup_angle(&d, c, &c->sets[0], "ooe", NULL,
-                                           NAN, NULL),
-                     DK_OK);
-    return d;
+    test_design(&d, "BBO", NULL, dk_waves_shg(fund), 1, 25, "ooe",
+                DK_SCHEME_ANGLE, 1);
 }
 
 /* GVM between 800 nm and its second harmonic in BBO (type I): about
@@ -38,7 +32,7 @@ static void
 bbo_800_shg(void **state)
 {
     (void)state;
-    dk_design d = bbo_shg(0.8);
+    bbo_shg(0.8);
     dk_pulse_props p;
     assert_int_equal(dk_pulse_props_of(&d, &p, NULL), DK_OK);
     assert_within(fabs(p.gvm_fs_per_mm[0]), 193, 0, 6);
@@ -68,10 +62,10 @@ static void
 extraordinary_group_index(void **state)
 {
     (void)state;
-    dk_design d = bbo_shg(0.8);
+    bbo_shg(0.8);
     dk_pulse_props p;
     assert_int_equal(dk_pulse_props_of(&d, &p, NULL), DK_OK);
-    eprobe e = {d.angle.crystal, {0}};
+    eprobe e = {d.crystal, {0}};
     dk_direction(d.theta_rad, d.phi_rad, e.s);
     gsl_function f = {e_index, &e};
     double dn, abserr;
@@ -98,14 +92,10 @@ qpm_waves(void **state)
 {
     (void)state;
     const dk_crystal *c = dk_db_find(db, "MgO:LN");
-    dk_design d = {0};
-    d.waves = (dk_waves){1.064, 0, 3.4};
-    dk_waves_complete(&d.waves, NULL);
-    d.temp_c = 40;
-    d.length_mm = 1;
-    assert_int_equal(dk_design_setup_qpm(&d, c, &c->sets[0], NULL, 1, 0, 0,
-                                         NULL),
-                     DK_OK);
+    dk_waves w = {1.064, 0, 3.4};
+    dk_waves_complete(&w, NULL);
+    test_design(&d, "MgO:LN", c->sets[0].name, w, 0, 40, NULL, DK_SCHEME_QPM,
+                1);
     dk_pulse_props p;
     assert_int_equal(dk_pulse_props_of(&d, &p, NULL), DK_OK);
     dk_index_value v;

@@ -12,29 +12,32 @@
 #include "deltak/sweep.h"
 #include "deltak/units.h"
 
-static dk_sweep
+static dk_sweep s;
+static dk_design d;
+
+/* A QPM sweep of MgO:LN pumped at @pump with a given grating. */
+static void
 qpm_sweep(double pump, double period, double temp)
 {
-    const dk_crystal *c = dk_db_find(db, "MgO:LN");
-    dk_sweep s = {0};
-    s.d.kind = DK_DESIGN_QPM;
-    s.d.waves.pump_um = pump;
-    s.d.temp_c = temp;
-    s.d.period_um = period;
-    s.d.length_mm = 20;
-    s.t_lo_c = 0;
-    s.t_hi_c = 250;
-    assert_int_equal(dk_qpm_init(&s.d.qpm, c, &c->sets[0], NULL, 1, 0.5, 25,
-                                 NULL),
-                     DK_OK);
-    return s;
+    dk_design_request rq;
+    dk_design_request_init(&rq);
+    rq.crystal = dk_db_find(db, "MgO:LN");
+    rq.set_name = rq.crystal->sets[0].name;
+    rq.waves.pump_um = pump;
+    rq.temp_c = temp;
+    rq.period_um = period;
+    rq.length_mm = 20;
+    rq.temp_range_c[0] = 0;
+    rq.temp_range_c[1] = 250;
+    assert_int_equal(dk_design_setup(&rq, &d, NULL), DK_OK);
+    dk_sweep_init(&s, &d);
 }
 
 static void
 qpm_round_trips(void **state)
 {
     (void)state;
-    dk_sweep s = qpm_sweep(1.064, 30.5, 40);
+    qpm_sweep(1.064, 30.5, 40);
     double v[16];
     int n;
     assert_int_equal(dk_sweep_solve(&s, DK_VAR_WAVELENGTHS, v, 16, &n, NULL),
@@ -67,14 +70,9 @@ angle_theta_matches_solver(void **state)
 {
     (void)state;
     const dk_crystal *c = dk_db_find(db, "BBO");
-    dk_sweep s = {0};
-    s.d.waves = dk_waves_shg(1.064);
-    s.d.shg = 1;
-    s.d.temp_c = 25;
-    s.d.length_mm = 1;
-    assert_int_equal(dk_design_setup_angle(&s.d, c, &c->sets[0], "ooe", NULL,
-                                           NAN, NULL),
-                     DK_OK);
+    test_design(&d, "BBO", c->sets[0].name, dk_waves_shg(1.064), 1, 25,
+                "ooe", DK_SCHEME_ANGLE, 1);
+    dk_sweep_init(&s, &d);
     for (double f = 0.7; f < 1.6; f += 0.2) {
         assert_int_equal(dk_sweep_set(&s, DK_VAR_FUNDAMENTAL, f, NULL), DK_OK);
         double th[8];
@@ -85,7 +83,9 @@ angle_theta_matches_solver(void **state)
         dk_angle_problem pb = {c, &c->sets[0], dk_waves_shg(f), 1, 25, 0, 0};
         dk_angle_solution sol[4];
         int ns;
-        assert_int_equal(dk_angle_solve(&pb, NAN, "ooe", sol, 4, &ns, NULL),
+        assert_int_equal(dk_angle_solve(&pb,
+                                        &(dk_angle_search){"ooe", NAN, NULL},
+                                        sol, 4, &ns, NULL),
                          DK_OK);
         assert_within(th[0], sol[0].theta_rad * 180 / M_PI, 0, 1e-7);
     }
@@ -100,14 +100,10 @@ gain_spectrum(void **state)
 {
     (void)state;
     const dk_crystal *c = dk_db_find(db, "BBO");
-    dk_design d = {0};
-    d.waves = (dk_waves){0.8, 1.3, 0};
-    dk_waves_complete(&d.waves, NULL);
-    d.temp_c = 25;
-    d.length_mm = 3;
-    assert_int_equal(dk_design_setup_angle(&d, c, &c->sets[0], "ooe", NULL,
-                                           NAN, NULL),
-                     DK_OK);
+    dk_waves w = {0.8, 1.3, 0};
+    dk_waves_complete(&w, NULL);
+    test_design(&d, "BBO", c->sets[0].name, w, 0, 25, "ooe", DK_SCHEME_ANGLE,
+                3);
     double gamma = 2.3;
     assert_within(dk_design_gain(&d, gamma, 1.3),
                   pow(cosh(gamma * 3), 2), 1e-9, 0);

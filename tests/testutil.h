@@ -49,6 +49,35 @@ db_teardown(void **state)
     dk_db_free(db);
     return 0;
 }
+
+#include "deltak/design.h"
+
+/* A design resolved by the design layer, as the commands make it: crystal
+ * and set by name (set NULL: the default), waves (shg: signal = idler =
+ * fundamental), temperature (NAN: default), modes or axes (NULL: the
+ * default rule), scheme, length (NAN: none). Fails the test on error. */
+static inline void
+test_design(dk_design *d, const char *crystal, const char *set, dk_waves w,
+            int shg, double temp_c, const char *pol, dk_scheme scheme,
+            double length_mm)
+{
+    dk_design_request rq;
+    dk_design_request_init(&rq);
+    rq.crystal = dk_db_find(db, crystal);
+    assert_non_null(rq.crystal);
+    rq.set_name = set;
+    rq.waves = w;
+    rq.shg = shg;
+    rq.temp_c = temp_c;
+    rq.pol = pol;
+    rq.scheme = scheme;
+    rq.length_mm = length_mm;
+    dk_error err = {0};
+    if (dk_design_resolve(&rq, d, &err)) {
+        print_error("design %s %s: %s\n", crystal, set ? set : "", err.msg);
+        fail();
+    }
+}
 #endif
 
 #endif /* DK_TESTUTIL_H */

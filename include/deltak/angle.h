@@ -8,8 +8,9 @@
  *   Δk = 2π [n_p(s)/λp − n_s(s)/λs − n_i(s)/λi]           (rad/µm)
  * with each wave in one of the two eigenmodes of deltak/modes.h.
  * Noncollinear: the signal leaves the pump at internal angle α in the
- * plane of the pump and the optic (Z) axis; the idler takes the direction
- * of k_p − k_s and
+ * plane of the pump and the Z axis (α > 0: farther from Z than the pump,
+ * θ_s = θ + α; α < 0: nearer to Z); the idler takes the direction of
+ * k_p − k_s and
  *   Δk = |k_p − k_s| − 2π n_i(ŝ_i)/λi.
  * d_eff = Σ d_ijk E_p,i E_s,j E_i,k over unit field vectors (Boyd,
  * Nonlinear Optics, 3rd ed. (2008), §2.3; Dmitriev et al., Handbook of
@@ -47,6 +48,19 @@ typedef struct dk_angle_solution {
 } dk_angle_solution;
 
 /*
+ * dk_angle_waves:
+ * The unit wave vectors @dir (signal, idler, pump, optical frame) and the
+ * modes @m (same order) of the three waves for the pump along (θ, φ):
+ * collinear, or noncollinear with pb->alpha_rad (the idler along
+ * k_p − k_s).
+ * Returns: DK_OK; DK_EDOM when the idler direction is undefined or a mode
+ * is missing; the dk_modes_at() errors.
+ */
+dk_status dk_angle_waves(dk_angle_problem *pb, const char pol[3],
+                         double theta_rad, double phi_rad, double dir[3][3],
+                         dk_mode m[3], dk_error *err);
+
+/*
  * dk_angle_delta_k:
  * Δk (rad/µm) for modes @pol (signal, idler, pump labels) with the pump
  * along (θ, φ). Returns NAN where a wave is outside the transparency
@@ -55,19 +69,34 @@ typedef struct dk_angle_solution {
 double dk_angle_delta_k(dk_angle_problem *pb, const char pol[3],
                         double theta_rad, double phi_rad);
 
+/* Where dk_angle_solve() looks. */
+typedef struct dk_angle_search {
+    const char *pol;    /* only this mode combination ("ooe"); NULL: all */
+    double phi_rad;     /* uniaxial: the azimuth for d_eff (NAN: the one
+                         * maximising |d_eff|); biaxial: solve θ at this φ
+                         * instead of in the principal planes (NAN: planes) */
+    const char *plane;  /* biaxial: only "XY", "YZ" or "XZ"; NULL: all */
+} dk_angle_search;
+
 /*
  * dk_angle_solve:
- * Every phase-matching direction of every mode combination.
- * Uniaxial: θ in [0, 90°]; φ = @phi_rad when finite, else the φ that
- * maximises |d_eff|. Biaxial: θ or φ in [0, 90°] in each principal plane.
- * Isotropic crystals have no birefringence: DK_EINVAL.
- * @only_pol: restrict to one combination ("ooe"; NULL: all)
+ * Every phase-matching direction of every mode combination, over the
+ * whole range that matters: θ in [0°, 180°] (uniaxial, the YZ and XZ
+ * planes, or at a given φ) and φ in [0°, 180°) in the XY plane. Δk of a
+ * collinear design depends on the direction only through s_i², so each
+ * root θ has a twin 180° − θ (φ: 180° − φ); the twin is a different cut
+ * with a different d_eff in crystals of low symmetry (BIBO, point group 2)
+ * and is listed unless its |d_eff| and walk-offs equal the first's (then
+ * the two are the same cut up to symmetry). Noncollinear designs have no
+ * such twin and are scanned over the whole range.
+ * @opt: restrictions; NULL for none
  *
- * Returns: DK_OK (with *n = 0 when nothing phase-matches); DK_EINVAL.
+ * Returns: DK_OK (with *n = 0 when nothing phase-matches); DK_EINVAL for
+ * an isotropic crystal or a bad plane.
  */
-dk_status dk_angle_solve(dk_angle_problem *pb, double phi_rad,
-                         const char *only_pol, dk_angle_solution *sol,
-                         int max, int *n, dk_error *err);
+dk_status dk_angle_solve(dk_angle_problem *pb, const dk_angle_search *opt,
+                         dk_angle_solution *sol, int max, int *n,
+                         dk_error *err);
 
 /*
  * dk_angle_describe:
@@ -117,11 +146,14 @@ dk_status dk_angle_ncpm_temperatures(dk_angle_problem *pb, const char pol[3],
  * signal-idler angle): the broadband condition of noncollinear parametric
  * amplification (G. Cerullo, S. De Silvestri, Rev. Sci. Instrum. 74, 1
  * (2003), eq. 14). For each α the pump angle θ that phase-matches modes
- * @pol is solved; @theta_rad returns it at the answer.
- * Returns: DK_OK; DK_ENOROOT when no α in (0, @alpha_max_rad] works.
+ * @pol is solved; @theta_rad returns it at the answer. @sign (+1 or −1)
+ * says on which side of the pump the signal lies: +1 farther from Z than
+ * the pump (θ_s = θ + α), −1 nearer to Z (θ_s = θ − α); *alpha_rad has
+ * that sign.
+ * Returns: DK_OK; DK_ENOROOT when no |α| in (0, @alpha_max_rad] works.
  */
 dk_status dk_angle_magic_alpha(dk_angle_problem *pb, const char pol[3],
-                               double phi_rad, double alpha_max_rad,
+                               double phi_rad, int sign, double alpha_max_rad,
                                double *alpha_rad, double *theta_rad,
                                dk_error *err);
 

@@ -30,6 +30,20 @@ typedef struct dk_waves {
  */
 dk_status dk_waves_complete(dk_waves *w, dk_error *err);
 
+/* How many of the three wavelengths are set (> 0). */
+int dk_waves_given(const dk_waves *w);
+
+/*
+ * dk_third_wave_um:
+ * The third wavelength from energy conservation given the pump and one of
+ * signal or idler: 1/(1/λp − 1/λ). NAN when λ is not longer than λp.
+ */
+double dk_third_wave_um(double pump_um, double other_um);
+
+/* The waves of pump @pump_um whose signal carries the fraction @share of
+ * the pump frequency (0 < share < 1): λs = λp/share, λi = λp/(1 − share). */
+dk_waves dk_waves_of_share(double pump_um, double share);
+
 /* SHG of @fundamental_um: signal = idler = fundamental, pump = half. */
 dk_waves dk_waves_shg(double fundamental_um);
 

@@ -10,6 +10,16 @@
  *     3597 (1968), eq. 2.27), with ρ the walk-off between two waves
  * For extraordinary waves the group velocity is taken along the wave
  * vector (its small tilt towards the Poynting vector is neglected).
+ *
+ * Noncollinear designs (signal at angle α from the pump, idler at β, the
+ * two at Ω = α + β) project as is done for noncollinear OPAs: the pairs
+ * with the pump along the pump direction (the crystal's length),
+ *   GVM(s, p) = (n_g,s / cos α − n_g,p)/c,  GVM(i, p) = (n_g,i / cos β − n_g,p)/c,
+ * and the signal-idler pair along the signal direction,
+ *   GVM(s, i) = (n_g,s − n_g,i / cos Ω)/c,
+ * which vanishes at the broadband condition v_g,s = v_g,i cos Ω
+ * (G. Cerullo, S. De Silvestri, Rev. Sci. Instrum. 74, 1 (2003), eq. 14).
+ * Collinear designs have α = β = Ω = 0 and the plain differences.
  * References: A. M. Weiner, Ultrafast Optics, Wiley (2009), §4;
  * G. Cerullo, S. De Silvestri, Rev. Sci. Instrum. 74, 1 (2003), §II.
  */
@@ -30,8 +40,12 @@ typedef struct dk_wave_props {
 
 typedef struct dk_pulse_props {
     dk_wave_props w[3];          /* signal, idler, pump */
-    double gvm_fs_per_mm[3];     /* signal−pump, idler−pump, signal−idler */
+    double gvm_fs_per_mm[3];     /* signal−pump, idler−pump, signal−idler
+                                  * (projected when noncollinear) */
     double walkoff_rad[3];       /* between the same pairs */
+    double angle_rad[3];         /* wave-vector angles of the same pairs:
+                                  * α, β, Ω; 0 when collinear */
+    int noncollinear;
 } dk_pulse_props;
 
 /*

@@ -66,6 +66,10 @@ dk_status dk_qpm_period(dk_qpm *q, const dk_waves *w, double temp_c,
                         double *period_written_um, double *period_at_t_um,
                         dk_error *err);
 
+/* The grating vector 2πm/Λ(T) (rad/µm) of a grating written with period
+ * @period_um at q->written_temp_c, at @temp_c (thermal expansion). */
+double dk_qpm_grating_k(const dk_qpm *q, double period_um, double temp_c);
+
 /* Δk (rad/µm) with a grating of written period @period_um; NAN on error. */
 double dk_qpm_delta_k(dk_qpm *q, const dk_waves *w, double temp_c,
                       double period_um);

@@ -1,8 +1,13 @@
 /*
- * gain_spectrum.c - parametric gain against signal wavelength and its
- * FWHM (see deltak/gain_spectrum.h).
+ * gain_spectrum.c - gain and conversion of a design at its operating
+ * point (see deltak/gain_spectrum.h): the parametric gain against signal
+ * wavelength and its FWHM, and SHG efficiency plane-wave, depleted and
+ * focused.
  */
 #include <math.h>
+#include <stdlib.h>
+
+#include "deltak/constants.h"
 
 #include "deltak/gain_spectrum.h"
 #include "deltak/roots.h"
@@ -68,4 +73,150 @@ dk_design_gain_fwhm(dk_design *d, double gamma_per_mm, double *lo_um,
                             "the gain band reaches beyond 30 %% of the signal "
                             "wavelength or the crystal's range");
     return DK_OK;
+}
+
+dk_status
+dk_design_opa(dk_design *d, double pump_gw_per_cm2, dk_opa_result *out,
+              dk_error *err)
+{
+    dk_opa_result *r = out;
+    *r = (dk_opa_result){0};
+    r->first_order_thz = NAN;
+    dk_status s = dk_pulse_props_of(d, &r->pulse, err);
+    if (s)
+        return s;
+    r->deff_pm_per_v = dk_design_deff(d);
+    if (!isfinite(r->deff_pm_per_v) || r->deff_pm_per_v == 0)
+        return dk_error_set(err, DK_EDOM,
+                            "%s has no usable d_eff for this design (%s)",
+                            d->crystal->id,
+                            d->crystal->has_nonlinear
+                                ? "d_eff vanishes in this direction and "
+                                  "polarisation"
+                                : "the crystal file gives no nonlinear "
+                                  "coefficients");
+    const dk_waves *w = &d->waves;
+    const dk_pulse_props *pp = &r->pulse;
+    if ((s = dk_opa_gamma_per_mm(r->deff_pm_per_v, pp->w[2].n, pp->w[0].n,
+                                 pp->w[1].n, w->signal_um, w->idler_um,
+                                 pump_gw_per_cm2, &r->gamma_per_mm, err)) ||
+        (s = dk_opa_signal_gain(r->gamma_per_mm, 0, d->length_mm, &r->gain,
+                                err)))
+        return s;
+    if (pp->gvm_fs_per_mm[2] != 0)
+        dk_opa_bandwidth_thz(r->gamma_per_mm, d->length_mm,
+                             pp->gvm_fs_per_mm[2], &r->first_order_thz, NULL);
+    if (dk_design_gain_fwhm(d, r->gamma_per_mm, &r->signal_lo_um,
+                            &r->signal_hi_um, err) == DK_OK) {
+        r->have_band = 1;
+        r->idler_lo_um = dk_third_wave_um(w->pump_um, r->signal_hi_um);
+        r->idler_hi_um = dk_third_wave_um(w->pump_um, r->signal_lo_um);
+        r->band_thz = DK_C_M_PER_S *
+                      (1 / r->signal_lo_um - 1 / r->signal_hi_um) * 1e-6;
+    }
+    return DK_OK;
+}
+
+dk_status
+dk_design_gain_spectrum(dk_design *d, double gamma_per_mm, double lo_um,
+                        double hi_um, int n, double *signal_um, double *gain,
+                        dk_error *err)
+{
+    if (n < 2 || !(lo_um > 0) || !(hi_um > lo_um) || !isfinite(hi_um))
+        return dk_error_set(err, DK_EINVAL,
+                            "a gain spectrum needs 2 or more points over "
+                            "lo < hi");
+    for (int k = 0; k < n; k++) {
+        signal_um[k] = lo_um + (hi_um - lo_um) * k / (n - 1);
+        gain[k] = dk_design_gain(d, gamma_per_mm, signal_um[k]);
+    }
+    return DK_OK;
+}
+
+/* Indices of fundamental and second harmonic at the operating point. */
+static dk_status
+shg_indices(dk_design *d, double *nf, double *nsh, double *rho,
+            dk_error *err)
+{
+    dk_pulse_props pp;
+    dk_status s = dk_pulse_props_of(d, &pp, err);
+    if (s)
+        return s;
+    *nf = pp.w[0].n;
+    *nsh = pp.w[2].n;
+    *rho = pp.walkoff_rad[0];
+    return DK_OK;
+}
+
+dk_status
+dk_design_shg_plane(dk_design *d, double deff_pm_per_v,
+                    double fund_gw_per_cm2, double *efficiency,
+                    dk_error *err)
+{
+    double nf, nsh, rho;
+    dk_status s = shg_indices(d, &nf, &nsh, &rho, err);
+    return s ? s
+             : dk_shg_efficiency(deff_pm_per_v, nf, nsh, d->waves.signal_um,
+                                 d->length_mm, fund_gw_per_cm2, 0,
+                                 efficiency, err);
+}
+
+dk_status
+dk_design_shg_depleted(dk_design *d, double deff_pm_per_v,
+                       double fund_gw_per_cm2, int nz, double *z_mm,
+                       double *efficiency, dk_error *err)
+{
+    double nf, nsh, rho;
+    dk_status s = shg_indices(d, &nf, &nsh, &rho, err);
+    if (s)
+        return s;
+    if (nz < 2)
+        return dk_error_set(err, DK_EINVAL, "need two or more positions");
+    dk_twm m;
+    dk_twm_point *pt = malloc((size_t)nz * sizeof *pt);
+    if (!pt)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    for (int k = 0; k < nz; k++)
+        z_mm[k] = d->length_mm * k / (nz - 1);
+    s = dk_twm_shg_init(&m, d->waves.signal_um, nf, nsh, deff_pm_per_v,
+                        fund_gw_per_cm2, 0, err);
+    if (!s)
+        s = dk_twm_propagate(&m, z_mm, nz, pt, err);
+    for (int k = 0; !s && k < nz; k++)
+        efficiency[k] = fund_gw_per_cm2 > 0
+                            ? pt[k].intensity_gw_per_cm2[2] / fund_gw_per_cm2
+                            : 0;
+    free(pt);
+    return s;
+}
+
+dk_status
+dk_design_shg_focused(dk_design *d, double deff_pm_per_v, double power_w,
+                      double waist_um, dk_focus_result *out, dk_error *err)
+{
+    double nf, nsh, rho;
+    dk_status s = shg_indices(d, &nf, &nsh, &rho, err);
+    if (s)
+        return s;
+    const double lam = d->waves.signal_um;
+    dk_focus_result *r = out;
+    r->power_w = power_w;
+    if ((s = dk_bk_walkoff_b(rho, d->length_mm, nf, lam, &r->walkoff_b,
+                             err)) ||
+        (s = dk_bk_optimum(r->walkoff_b, &r->xi_opt, &r->h_opt, NULL, err)))
+        return s;
+    if (isfinite(waist_um)) {
+        r->waist_um = waist_um;
+        if ((s = dk_bk_xi(d->length_mm, waist_um, nf, lam, &r->xi, err)))
+            return s;
+    } else {
+        /* w0 from b = L/ξ = 2π n w0²/λ at the optimum ξ. */
+        r->xi = r->xi_opt;
+        double b_mm = d->length_mm / r->xi;
+        r->waist_um = 1e3 * sqrt(b_mm * lam * 1e-3 / (2 * DK_PI * nf));
+    }
+    if ((s = dk_bk_h_max(r->xi, r->walkoff_b, &r->h, NULL, err)))
+        return s;
+    return dk_bk_shg_efficiency(deff_pm_per_v, nf, nsh, lam, d->length_mm,
+                                power_w, r->h, &r->efficiency, err);
 }

@@ -4,9 +4,9 @@
  *
  * QPM designs: each wave along the grating axis, polarised along its
  * principal axis (no walk-off). Birefringent designs: each wave in its
- * eigenmode along the pump direction (collinear; for a noncollinear
- * design along its own direction), with the mode's exact λ-derivatives
- * from deltak/modes.h.
+ * eigenmode along its own wave vector (deltak/angle.h: the idler of a
+ * noncollinear design along k_p − k_s), with the mode's exact
+ * λ-derivatives from deltak/modes.h.
  */
 #include <math.h>
 #include <string.h>
@@ -37,8 +37,9 @@ dk_pulse_props_of(dk_design *d, dk_pulse_props *out, dk_error *err)
 {
     const double lam[3] = {d->waves.signal_um, d->waves.idler_um,
                            d->waves.pump_um};
+    double dir[3][3] = {{0}};
     memset(out, 0, sizeof *out);
-    if (d->kind == DK_DESIGN_QPM) {
+    if (d->scheme == DK_SCHEME_QPM) {
         const dk_qpm *q = &d->qpm;
         for (int k = 0; k < 3; k++) {
             dk_index_value v;
@@ -48,38 +49,39 @@ dk_pulse_props_of(dk_design *d, dk_pulse_props *out, dk_error *err)
                 return s;
             fill(&out->w[k], lam[k], v.n, v.dn_dl, v.d2n_dl2, v.d3n_dl3);
             out->w[k].poynting[q->crystal->grating_axis] = 1;
+            dir[k][q->crystal->grating_axis] = 1;
         }
     } else {
-        dk_angle_problem *pb = &d->angle;
-        double sp[3], ss[3];
-        dk_direction(d->theta_rad, d->phi_rad, sp);
-        dk_direction(d->theta_rad + pb->alpha_rad, d->phi_rad, ss);
+        dk_angle_problem pb = d->angle;
+        pb.waves = d->waves;
+        pb.temp_c = d->temp_c;
+        dk_mode m[3];
+        dk_status st = dk_angle_waves(&pb, d->pol, d->theta_rad, d->phi_rad,
+                                      dir, m, err);
+        if (st)
+            return st;
         for (int k = 0; k < 3; k++) {
-            /* The idler of a noncollinear design would need its own
-             * direction; the collinear case is the common one here. */
-            const double *s = k == 0 ? ss : sp;
-            dk_mode m[2];
-            dk_status st = dk_modes_at(pb->crystal, pb->set, lam[k],
-                                       d->temp_c, s, m, &pb->warnings, err);
-            if (st)
-                return st;
-            int i = dk_mode_select(m, d->pol[k]);
-            if (i < 0)
-                return dk_error_set(err, DK_ENOTFOUND, "no mode '%c'",
-                                    d->pol[k]);
-            fill(&out->w[k], lam[k], m[i].n, m[i].dn_dl, m[i].d2n_dl2,
-                 m[i].d3n_dl3);
-            out->w[k].walkoff_rad = m[i].walkoff_rad;
-            memcpy(out->w[k].poynting, m[i].poynting, sizeof m[i].poynting);
+            fill(&out->w[k], lam[k], m[k].n, m[k].dn_dl, m[k].d2n_dl2,
+                 m[k].d3n_dl3);
+            out->w[k].walkoff_rad = m[k].walkoff_rad;
+            memcpy(out->w[k].poynting, m[k].poynting, sizeof m[k].poynting);
         }
+        out->noncollinear = d->angle.alpha_rad != 0;
     }
     static const int pairs[3][2] = {{0, 2}, {1, 2}, {0, 1}};
     for (int k = 0; k < 3; k++) {
         const dk_wave_props *a = &out->w[pairs[k][0]], *b = &out->w[pairs[k][1]];
-        out->gvm_fs_per_mm[k] = dk_inverse_group_velocity_fs_per_mm(
-                                    a->group_index) -
-                                dk_inverse_group_velocity_fs_per_mm(
-                                    b->group_index);
+        double ang = angle_between(dir[pairs[k][0]], dir[pairs[k][1]]);
+        out->angle_rad[k] = out->noncollinear ? ang : 0;
+        /* Pairs with the pump: the first wave projected on the pump
+         * direction; signal-idler: the idler on the signal direction. */
+        double ga = a->group_index, gb = b->group_index;
+        if (k < 2)
+            ga /= cos(out->angle_rad[k]);
+        else
+            gb /= cos(out->angle_rad[k]);
+        out->gvm_fs_per_mm[k] = dk_inverse_group_velocity_fs_per_mm(ga) -
+                                dk_inverse_group_velocity_fs_per_mm(gb);
         out->walkoff_rad[k] = angle_between(a->poynting, b->poynting);
     }
     return DK_OK;

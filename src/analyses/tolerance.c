@@ -22,14 +22,14 @@ dk_design_applies(const dk_design *d, dk_tol_param p)
     case DK_TOL_PUMP:
         return !d->shg;
     case DK_TOL_THETA:
-        return d->kind == DK_DESIGN_ANGLE;
+        return d->scheme == DK_SCHEME_ANGLE;
     case DK_TOL_PHI:
         /* In a uniaxial crystal Δk does not depend on φ at all. */
-        return d->kind == DK_DESIGN_ANGLE &&
-               d->angle.crystal->optical_class == DK_BIAXIAL;
+        return d->scheme == DK_SCHEME_ANGLE &&
+               d->crystal->optical_class == DK_BIAXIAL;
     case DK_TOL_PERIOD:
     case DK_TOL_TILT:
-        return d->kind == DK_DESIGN_QPM;
+        return d->scheme == DK_SCHEME_QPM;
     }
     return 0;
 }
@@ -63,8 +63,7 @@ moved_waves(const dk_design *d, dk_tol_param p, double x)
     } else {
         return w;
     }
-    double inv = 1 / w.pump_um - 1 / w.signal_um;
-    w.idler_um = inv > 0 ? 1 / inv : NAN;
+    w.idler_um = dk_third_wave_um(w.pump_um, w.signal_um);
     return w;
 }
 
@@ -77,13 +76,13 @@ dk_design_delta_k(dk_design *d, dk_tol_param p, double x)
     if (!isfinite(w.idler_um))
         return NAN;
     double t = p == DK_TOL_TEMPERATURE ? x : d->temp_c;
-    if (d->kind == DK_DESIGN_QPM) {
+    if (d->scheme == DK_SCHEME_QPM) {
         if (p == DK_TOL_PERIOD)
             return dk_qpm_delta_k(&d->qpm, &w, t, x);
         if (p == DK_TOL_TILT) {
             /* The grating projected on the beams: K cos δ. */
             double k0 = dk_qpm_delta_k(&d->qpm, &w, t, d->period_um);
-            double kg = 2 * M_PI * d->qpm.order / d->period_um;
+            double kg = dk_qpm_grating_k(&d->qpm, d->period_um, t);
             return k0 + kg * (1 - cos(x));
         }
         return dk_qpm_delta_k(&d->qpm, &w, t, d->period_um);
@@ -157,43 +156,27 @@ dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
     return DK_OK;
 }
 
-/* The birefringent solution of @d at its operating point, described. */
-static int
-describe(dk_design *d, dk_angle_solution *sol)
-{
-    memset(sol, 0, sizeof *sol);
-    memcpy(sol->pol, d->pol, 4);
-    sol->theta_rad = d->theta_rad;
-    sol->phi_rad = d->phi_rad;
-    dk_angle_problem pb = d->angle;
-    pb.waves = d->waves;
-    pb.temp_c = d->temp_c;
-    return dk_angle_describe(&pb, sol, NULL) == DK_OK;
-}
 
-double
-dk_design_input_index(dk_design *d)
+dk_status
+dk_design_acceptance_curve(dk_design *d, dk_tol_param p, double span_fwhm,
+                           int n, double *x, double *sinc2,
+                           dk_acceptance *acc, dk_error *err)
 {
-    double lam = d->shg ? d->waves.signal_um : d->waves.pump_um;
-    if (d->kind == DK_DESIGN_QPM) {
-        dk_index_value v;
-        char ax = d->qpm.pol[d->shg ? 0 : 2];
-        if (dk_material_index(d->qpm.crystal, d->qpm.set, ax, lam, d->temp_c,
-                              &v, NULL))
-            return NAN;
-        return v.n;
+    if (n < 2 || !(span_fwhm > 0))
+        return dk_error_set(err, DK_EINVAL,
+                            "an acceptance curve needs 2 or more points");
+    dk_status s = dk_design_tolerance(d, p, acc, err);
+    if (s)
+        return s;
+    if (!acc->bounded)
+        return dk_error_set(err, DK_ENOROOT,
+                            "the acceptance is unbounded in the search "
+                            "range; no curve to draw");
+    double w = acc->fwhm, x0 = acc->peak;
+    for (int k = 0; k < n; k++) {
+        x[k] = x0 - span_fwhm * w + 2 * span_fwhm * w * k / (n - 1);
+        double dk = dk_design_delta_k(d, p, x[k]);
+        sinc2[k] = isfinite(dk) ? dk_sinc2(dk, d->length_mm * 1e3) : NAN;
     }
-    dk_angle_solution sol;
-    return describe(d, &sol) ? sol.n[d->shg ? 0 : 2] : NAN;
-}
-
-double
-dk_design_deff(dk_design *d)
-{
-    if (d->kind == DK_DESIGN_QPM) {
-        double v;
-        return dk_qpm_deff(&d->qpm, &v, NULL) ? NAN : v;
-    }
-    dk_angle_solution sol;
-    return describe(d, &sol) ? sol.deff_pm_per_v : NAN;
+    return DK_OK;
 }

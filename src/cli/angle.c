@@ -1,6 +1,9 @@
 /*
  * angle.c - `deltak angle`: birefringent phase-matching directions with
- * walk-off and d_eff; noncritical temperatures; noncollinear geometry.
+ * walk-off and d_eff, every solution listed and the design's choice
+ * marked; noncritical temperatures; noncollinear and broadband geometry;
+ * the θ(φ) curve of a biaxial crystal. Parse, call the design layer,
+ * print.
  */
 #include <getopt.h>
 #include <math.h>
@@ -10,24 +13,29 @@
 #include "cli.h"
 #include "commands.h"
 #include "design_args.h"
-#include "deltak/angle.h"
-#include "deltak/units.h"
+#include "deltak/constants.h"
 
 static const char *const angle_usage[] = {
     "deltak angle --crystal <name> (--fundamental <wl> | two of --pump/"
     "--signal/--idler)",
-    "             [--temp <T>] [--type I|II] [--pol <sip>] [--phi <deg>]",
-    "             [--noncollinear <deg> | --magic] [--ncpm] [--cut <deg>]",
+    "             [--temp <T>] [--type I|II] [--pol <sip>] [--phi <deg>] "
+    "[--plane XY|YZ|XZ]",
+    "             [--noncollinear <deg> | --broadband] [--ncpm] [--cut <deg>] "
+    "[--curve]",
     "             [--dispersion <set> | --all-sets] [--json]",
     "",
     "  --type I|II          only this type (default: every combination)",
     "  --pol <sip>          only these modes of signal, idler, pump: o/e "
     "(uniaxial) or s/f (biaxial slow/fast)",
-    "  --phi <deg>          azimuth for uniaxial crystals (default: the one "
-    "maximising d_eff)",
-    "  --noncollinear <deg> internal pump-signal angle alpha",
-    "  --magic              find alpha where signal and idler group "
-    "velocities match (broadband OPA)",
+    "  --phi <deg>          uniaxial: azimuth for d_eff (default: the one "
+    "maximising d_eff); biaxial: solve theta at this phi",
+    "  --plane XY|YZ|XZ     biaxial: only this principal plane",
+    "  --theta <deg>, --solution <n>  which listed solution is the design "
+    "(default: largest d_eff)",
+    "  --noncollinear <deg> internal pump-signal angle alpha (> 0: signal "
+    "farther from Z than the pump)",
+    "  --broadband          the alpha where signal and idler group "
+    "velocities match (noncollinear OPA); also --magic",
     "  --ncpm               temperatures of noncritical phase matching along "
     "X, Y and Z",
     "  --temp-range <lo:hi> where --ncpm looks (default: the set's range)",
@@ -37,18 +45,40 @@ static const char *const angle_usage[] = {
     "phi 0-90 deg",
     NULL};
 
-#define DEG (M_PI / 180)
+#define ALLOWED (CLI_D_COMMON | CLI_D_ANGLE)
+#define DEG DK_RAD_PER_DEG
+#define MAX_SETS 32
+
+static void
+add_flags(json_object *o, unsigned range, int shg)
+{
+    char buf[160];
+    if (!range)
+        return;
+    json_object *arr = json_object_new_array();
+    dk_range_codes(range, shg, buf, sizeof buf);
+    for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
+        json_object_array_add(arr, json_object_new_string(t));
+    json_object_object_add(o, "flags", arr);
+}
 
 static json_object *
-solution_json(const dk_angle_solution *s, double ext)
+solution_json(const dk_design *d, const dk_solution *s, double ext)
 {
     json_object *o = json_object_new_object();
     json_object_object_add(o, "type", json_object_new_string(s->type));
     json_object_object_add(o, "pol", json_object_new_string(s->pol));
     if (s->plane[0])
-        json_object_object_add(o, "plane", json_object_new_string(s->plane));
+        json_object_object_add(o, d->solved == DK_SOLVED_NCPM ? "axis"
+                                                              : "plane",
+                               json_object_new_string(s->plane));
     json_object_object_add(o, "theta_deg", cli_json_num(s->theta_rad / DEG));
     json_object_object_add(o, "phi_deg", cli_json_num(s->phi_rad / DEG));
+    if (d->solved == DK_SOLVED_NCPM)
+        json_object_object_add(o, "temperature_C", cli_json_num(s->temp_c));
+    if (s->alpha_rad != 0)
+        json_object_object_add(o, "alpha_deg",
+                               cli_json_num(s->alpha_rad / DEG));
     if (isfinite(s->deff_pm_per_v))
         json_object_object_add(o, "deff_pm_per_V",
                                cli_json_num(s->deff_pm_per_v));
@@ -65,45 +95,141 @@ solution_json(const dk_angle_solution *s, double ext)
     if (isfinite(ext))
         json_object_object_add(o, "external_angle_deg",
                                cli_json_num(ext / DEG));
+    add_flags(o, s->range, d->shg);
     return o;
 }
 
-static void
-print_solution(FILE *f, const dk_angle_solution *s, int shg, double ext)
-{
-    char pol[8];
-    if (shg)
-        snprintf(pol, sizeof pol, "%c%c -> %c", s->pol[0], s->pol[1],
-                 s->pol[2]);
-    else
-        snprintf(pol, sizeof pol, "%c %c %c", s->pol[0], s->pol[1], s->pol[2]);
-    fprintf(f, "  %-4s %-8s %-4s %8.3f %8.3f %9.3f   %6.2f %6.2f %6.2f",
-            s->type, pol, s->plane[0] ? s->plane : "-", s->theta_rad / DEG,
-            s->phi_rad / DEG, s->deff_pm_per_v, s->walkoff_rad[0] * 1e3,
-            s->walkoff_rad[1] * 1e3, s->walkoff_rad[2] * 1e3);
-    if (isfinite(ext))
-        fprintf(f, "  %7.2f", ext / DEG);
-    fputc('\n', f);
-}
-
-/* Mode combinations not worth listing: all in one mode, the second
- * ordering of a type-II SHG pair (labels @l: slow/o first), or not the
- * one asked for. */
-static int
-skip_combo(const char p3[4], const char *l, int shg, const char *pol)
-{
-    if (p3[0] == p3[1] && p3[1] == p3[2])
-        return 1;
-    if (shg && p3[0] == l[1] && p3[1] == l[0])
-        return 1;
-    return pol && strcmp(pol, p3) != 0;
-}
-
-/* The input wave whose index sets the external angle. */
 static double
-input_index(const dk_angle_solution *s, int shg)
+external(const dk_design *d, const dk_solution *s, double cut)
 {
-    return shg ? s->n[0] : s->n[2];
+    if (!isfinite(cut))
+        return NAN;
+    return dk_external_angle(s->theta_rad, cut, s->n[d->shg ? 0 : 2]);
+}
+
+static void
+print_header(FILE *f, const dk_design *d, int first)
+{
+    fprintf(f, "%s%s, data set %s%s: ", first ? "" : "\n", d->crystal->id,
+            d->set->name, d->set->from_memory ? " [from memory]" : "");
+    if (d->shg)
+        fprintf(f, "SHG of %.6g um", d->waves.signal_um);
+    else
+        fprintf(f, "pump %.6g, signal %.6g, idler %.6g um",
+                d->waves.pump_um, d->waves.signal_um, d->waves.idler_um);
+    if (d->solved == DK_SOLVED_NCPM)
+        fputs("\n", f);
+    else
+        fprintf(f, " at %.4g C\n", d->temp_c);
+}
+
+static void
+print_table(FILE *f, const dk_design *d, double cut)
+{
+    int nc = d->solved == DK_SOLVED_NCPM;
+    int noncol = 0;
+    for (int k = 0; k < d->nsol; k++)
+        noncol |= d->sol[k].alpha_rad != 0;
+    if (nc)
+        fprintf(f, "  noncritical phase matching along a principal axis:\n"
+                   "    %-6s %-5s %10s %9s\n",
+                "modes", "axis", "T C", "d_eff");
+    else
+        fprintf(f, "    %-4s %-8s %-5s %8s %8s %s%9s   %-20s%s\n", "type",
+                "modes", "plane", "theta", "phi", noncol ? "   alpha " : "",
+                "d_eff", "walk-off mrad s i p",
+                isfinite(cut) ? "  ext deg" : "");
+    for (int k = 0; k < d->nsol; k++) {
+        const dk_solution *s = &d->sol[k];
+        const char *mark = k == d->chosen ? "*" : " ";
+        char deff[16];
+        if (isfinite(s->deff_pm_per_v))
+            snprintf(deff, sizeof deff, "%9.3f", s->deff_pm_per_v);
+        else
+            snprintf(deff, sizeof deff, "%9s", "n/a");
+        if (nc) {
+            fprintf(f, "  %s %-6s %-5s %10.2f %s", mark, s->pol, s->plane,
+                    s->temp_c, deff);
+        } else {
+            char pol[12];
+            if (d->shg)
+                snprintf(pol, sizeof pol, "%c%c -> %c", s->pol[0], s->pol[1],
+                         s->pol[2]);
+            else
+                snprintf(pol, sizeof pol, "%c %c %c", s->pol[0], s->pol[1],
+                         s->pol[2]);
+            char alpha[16] = "";
+            if (noncol)
+                snprintf(alpha, sizeof alpha, " %+8.3f", s->alpha_rad / DEG);
+            fprintf(f, "  %s %-4s %-8s %-5s %8.3f %8.3f%s %s   %6.2f %6.2f "
+                       "%6.2f",
+                    mark, s->type, pol, s->plane[0] ? s->plane : "-",
+                    s->theta_rad / DEG, s->phi_rad / DEG, alpha, deff,
+                    s->walkoff_rad[0] * 1e3, s->walkoff_rad[1] * 1e3,
+                    s->walkoff_rad[2] * 1e3);
+            double ext = external(d, s, cut);
+            if (isfinite(ext))
+                fprintf(f, "  %7.2f", ext / DEG);
+        }
+        if (s->range) {
+            char buf[160];
+            fprintf(f, "  [extrapolated: %s]",
+                    dk_range_words(s->range, d->shg, buf, sizeof buf));
+        }
+        fputc('\n', f);
+    }
+    if (d->nsol > 1 && d->chosen >= 0)
+        fprintf(f, "  * the design other commands use (solution %d)\n",
+                d->chosen + 1);
+    if (noncol)
+        fprintf(f, "  alpha: internal signal-pump angle; > 0: the signal "
+                   "lies farther from Z than the pump, < 0: nearer to Z\n");
+}
+
+/* The θ(φ) curve of every mode combination, as CSV. */
+static int
+print_curve(FILE *f, dk_design *d)
+{
+    const char *l = d->crystal->optical_class == DK_BIAXIAL ? "sf" : "oe";
+    enum { NPHI = 91, PER = 4 };
+    double th[NPHI * PER];
+    int cnt[NPHI];
+    dk_error err = {0};
+    fprintf(f, "pol,phi_deg,theta_deg\n");
+    for (int c3 = 0; c3 < 8; c3++) {
+        char p3[4] = {l[(c3 >> 2) & 1], l[(c3 >> 1) & 1], l[c3 & 1], 0};
+        if ((p3[0] == p3[1] && p3[1] == p3[2]) ||
+            (d->shg && p3[0] == l[1] && p3[1] == l[0]) ||
+            (d->pol[0] && strcmp(d->pol, p3)))
+            continue;
+        dk_angle_problem pb = d->angle;
+        pb.waves = d->waves;
+        pb.temp_c = d->temp_c;
+        if (dk_angle_curve(&pb, p3, NPHI, PER, th, cnt, &err))
+            return cli_error("%s", err.msg);
+        for (int k = 0; k < NPHI; k++)
+            for (int j = 0; j < cnt[k]; j++)
+                fprintf(f, "%s,%.4f,%.6f\n", p3, 90.0 * k / (NPHI - 1),
+                        th[k * PER + j] / DEG);
+    }
+    return 0;
+}
+
+/* Solve one set's design as the mode asks. Returns 0 or an exit code. */
+static int
+solve(const dk_design_request *rq, dk_design *d, int ncpm, int curve)
+{
+    int rc = cli_design_make(rq, d, !ncpm && !curve);
+    if (rc || !ncpm)
+        return rc;
+    dk_error err = {0};
+    if (dk_design_ncpm(d, &err))
+        return cli_error("%s", err.msg);
+    if (d->nsol == 0)
+        return cli_error("no noncritical phase matching along X, Y or Z "
+                         "between the temperatures searched (see "
+                         "--temp-range)");
+    return 0;
 }
 
 int
@@ -112,28 +238,24 @@ cmd_angle(int argc, char **argv)
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"temp-range", required_argument, NULL, 'R'},
-        {"phi", required_argument, NULL, 'F'},
-        {"noncollinear", required_argument, NULL, 'N'},
-        {"magic", no_argument, NULL, 'M'},
         {"ncpm", no_argument, NULL, 'C'},
         {"curve", no_argument, NULL, 'K'},
         {"cut", required_argument, NULL, 'X'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *phi_s = NULL, *alpha_s = NULL, *cut_s = NULL, *trange = NULL;
-    int magic = 0, ncpm = 0, curve = 0, ch, rc;
+    const char *cut_s = NULL;
+    int ncpm = 0, curve = 0, ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
             continue;
+        if ((rc = cli_design_option(ch, opts, &da, angle_usage)) == 1)
+            continue;
+        if (rc)
+            return rc;
         switch (ch) {
-        case 'R': trange = optarg; break;
-        case 'F': phi_s = optarg; break;
-        case 'N': alpha_s = optarg; break;
-        case 'M': magic = 1; break;
         case 'C': ncpm = 1; break;
         case 'K': curve = 1; break;
         case 'X': cut_s = optarg; break;
@@ -143,319 +265,148 @@ cmd_angle(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 1, angle_usage)))
         return rc;
-    if (cm.csv)
-        return cli_usage_error(angle_usage, "--csv is not offered here; use "
-                                            "--json");
-    if (da.period || da.theta || da.order)
-        return cli_usage_error(angle_usage, "--period, --order and --theta "
-                                            "do not apply to 'angle' (it "
-                                            "solves for the angle)");
-    cli_design_spec sp;
-    if ((rc = cli_design_parse(&da, &sp, 1, angle_usage)))
-        return rc;
-    dk_angle_problem pb = {0};
-    dk_error err = {0};
-    pb.waves = sp.waves;
-    pb.shg = sp.shg;
-    pb.temp_c = sp.temp_c;
-    const char *temp = da.temp, *pol = sp.pol, *type = sp.type;
-    double phi = NAN, cut = NAN, trg[2] = {NAN, NAN};
-    char *end;
-    if (trange && cli_parse_range(trange, 0, trg, &err))
-        return cli_usage_error(angle_usage, "%s", err.msg);
-    if (phi_s && (phi = strtod(phi_s, &end) * DEG, *end))
-        return cli_usage_error(angle_usage, "--phi '%s' must be degrees, "
-                                            "e.g. 90", phi_s);
-    if (cut_s && (cut = strtod(cut_s, &end) * DEG, *end))
-        return cli_usage_error(angle_usage, "--cut '%s' must be degrees, "
-                                            "e.g. 29.2", cut_s);
-    if (alpha_s && (pb.alpha_rad = strtod(alpha_s, &end) * DEG,
-                    *end || fabs(pb.alpha_rad) >= M_PI / 4))
-        return cli_usage_error(angle_usage, "--noncollinear '%s' must be "
-                                            "degrees below 45",
-                               alpha_s);
-    if (pol && strlen(pol) != 3)
-        return cli_usage_error(angle_usage, "--pol '%s' must have three "
-                                            "letters (signal idler pump)",
-                               pol);
-    if (magic && alpha_s)
-        return cli_usage_error(angle_usage, "choose one of --magic and "
-                                            "--noncollinear");
-    const char *want_type = type;
+    if (cm.csv && !curve)
+        return cli_usage_error(angle_usage, "--csv is offered with --curve; "
+                                            "otherwise use --json");
+    double cut = NAN;
+    if (cut_s && cli_angle("--cut", cut_s, -180, 180, &cut, angle_usage))
+        return CLI_USAGE;
+    if (ncpm + curve + cli_design_given(&da, OPT_BROADBAND) > 1)
+        return cli_usage_error(angle_usage, "choose one of --ncpm, --curve "
+                                            "and --broadband");
 
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
     rc = CLI_FAIL;
-    pb.crystal = cli_find_crystal(db, cm.crystal);
-    const dk_dispersion_set *only = NULL;
-    if (!pb.crystal || (!cm.all && !(only = cli_find_set(pb.crystal,
-                                                          cm.set_name))))
+    dk_design *d = malloc(sizeof *d);
+    dk_set_outcome *sets = cm.all ? malloc(MAX_SETS * sizeof *sets) : NULL;
+    json_object *root = NULL, *sets_json = NULL;
+    const dk_crystal *c = cli_find_crystal(db, cm.crystal);
+    dk_design_request rq;
+    if (!c || !d || (cm.all && !sets))
         goto done;
+    if ((rc = cli_design_request(&da, ALLOWED, 1, c, cm.crystal, cm.set_name,
+                                 &rq, angle_usage)))
+        goto done;
+    rq.scheme = DK_SCHEME_ANGLE;
     cli_out out;
-    if (cli_out_open(&out))
-        goto done;
-    if (curve) {
-        pb.set = only ? only : &pb.crystal->sets[0];
-        if (!temp && !dk_set_has_temperature(pb.set))
-            pb.temp_c = pb.set->reference_temperature_c;
-        const char *l = pb.crystal->optical_class == DK_BIAXIAL ? "sf" : "oe";
-        enum { NPHI = 91, PER = 4 };
-        double th[NPHI * PER];
-        int cnt[NPHI];
-        fprintf(out.f, "pol,phi_deg,theta_deg\n");
-        for (int c3 = 0; c3 < 8; c3++) {
-            char p3[4] = {l[(c3 >> 2) & 1], l[(c3 >> 1) & 1], l[c3 & 1], 0};
-            if (skip_combo(p3, l, pb.shg, pol))
-                continue;
-            if (dk_angle_curve(&pb, p3, NPHI, PER, th, cnt, &err)) {
-                cli_error("%s", err.msg);
-                cli_out_discard(&out);
-                goto done;
-            }
-            for (int k = 0; k < NPHI; k++)
-                for (int j = 0; j < cnt[k]; j++)
-                    fprintf(out.f, "%s,%.4f,%.6f\n", p3, 90.0 * k / (NPHI - 1),
-                            th[k * PER + j] / DEG);
-        }
-        rc = cli_out_commit(&out);
+    if ((rc = cli_out_open(&out)) != 0) {
+        rc = CLI_FAIL;
         goto done;
     }
-    json_object *root = json_object_new_object();
-    json_object *sets_json = json_object_new_array();
-    json_object_object_add(root, "crystal",
-                           json_object_new_string(pb.crystal->id));
-    json_object *wl = json_object_new_object();
-    json_object_object_add(wl, "pump", cli_json_num(pb.waves.pump_um));
-    json_object_object_add(wl, "signal", cli_json_num(pb.waves.signal_um));
-    json_object_object_add(wl, "idler", cli_json_num(pb.waves.idler_um));
-    json_object_object_add(root, "wavelengths_um", wl);
-    json_object_object_add(root, "temperature_C", cli_json_num(pb.temp_c));
-    int total = 0;
-    char spread_pol[4] = "";
-    double spread_lo = INFINITY, spread_hi = -INFINITY;
-    int spread_n = 0;
-    for (int si = 0; si < pb.crystal->nsets; si++) {
-        pb.set = &pb.crystal->sets[si];
-        if (only && pb.set != only)
-            continue;
-        /* Without --temp, a set with no T dependence is used at its own
-         * reference temperature, silently. */
-        if (!temp && !dk_set_has_temperature(pb.set))
-            pb.temp_c = pb.set->reference_temperature_c;
-        else if (!temp)
-            pb.temp_c = 25;
-        dk_angle_solution sol[DK_ANGLE_MAX_SOL];
-        int n = 0;
-        if (magic) {
-            const char *mp = pol ? pol
-                             : pb.crystal->optical_class == DK_UNIAXIAL ? "ooe"
-                                                                        : "ssf";
-            double a, th;
-            if (dk_angle_magic_alpha(&pb, mp, isfinite(phi) ? phi : 0,
-                                     20 * DEG, &a, &th, &err)) {
-                if (!cm.all) {
-                    cli_error("%s", err.msg);
-                    json_object_put(root);
-                    json_object_put(sets_json);
-                    cli_out_discard(&out);
-                    goto done;
-                }
-                cli_warn("data set '%s': %s", pb.set->name, err.msg);
-                continue;
-            }
-            pb.alpha_rad = a;
-            memcpy(sol[0].pol, mp, 3);
-            sol[0].pol[3] = '\0';
-            sol[0].plane[0] = '\0';
-            sol[0].theta_rad = th;
-            sol[0].phi_rad = isfinite(phi) ? phi : 0;
-            if (!dk_angle_describe(&pb, &sol[0], &err)) {
-                if (!isfinite(phi) &&
-                    pb.crystal->optical_class == DK_UNIAXIAL)
-                    dk_angle_best_phi(&pb, &sol[0]);
-                n = 1;
-            }
-        } else if (ncpm) {
-            /* Along X, Y, Z for every mode combination. */
-            static const struct {
-                const char *axis;
-                double theta, phi;
-            } dirs[] = {{"X", M_PI / 2, 0}, {"Y", M_PI / 2, M_PI / 2},
-                        {"Z", 0, 0}};
-            const char *l = pb.crystal->optical_class == DK_BIAXIAL ? "sf"
-                                                                    : "oe";
-            double lo = trg[0], hi = trg[1];
-            if (!isfinite(lo)) {
-                const double *r = pb.set->temp_form == DK_TEMP_NONE
-                                      ? pb.set->thermo.temperature_range_c
-                                      : pb.set->temperature_range_c;
-                lo = r[0], hi = r[1];
-            }
-            for (size_t d = 0; d < 3; d++)
-                for (int c = 0; c < 8; c++) {
-                    char p3[4] = {l[(c >> 2) & 1], l[(c >> 1) & 1], l[c & 1],
-                                  0};
-                    if (skip_combo(p3, l, pb.shg, pol))
-                        continue;
-                    double t[8];
-                    int nt;
-                    if (dk_angle_ncpm_temperatures(&pb, p3, dirs[d].theta,
-                                                   dirs[d].phi, lo, hi, t, 8,
-                                                   &nt, &err)) {
-                        cli_error("%s", err.msg);
-                        json_object_put(root);
-                        json_object_put(sets_json);
-                        cli_out_discard(&out);
-                        goto done;
-                    }
-                    for (int k = 0; k < nt && n < DK_ANGLE_MAX_SOL; k++) {
-                        double keep = pb.temp_c;
-                        pb.temp_c = t[k];
-                        dk_angle_solution *o = &sol[n];
-                        memset(o, 0, sizeof *o);
-                        memcpy(o->pol, p3, 4);
-                        snprintf(o->plane, sizeof o->plane, "%s",
-                                 dirs[d].axis);
-                        o->theta_rad = dirs[d].theta;
-                        o->phi_rad = dirs[d].phi;
-                        if (!dk_angle_describe(&pb, o, NULL)) {
-                            o->n[0] = t[k]; /* reused below as temperature */
-                            n++;
-                        }
-                        pb.temp_c = keep;
-                    }
-                }
-        } else if (dk_angle_solve(&pb, phi, pol, sol, DK_ANGLE_MAX_SOL, &n,
+    dk_spread spread = {0};
+    int nsets = 0;
+    if (cm.all && !ncpm && !curve) {
+        dk_error err = {0};
+        if (dk_design_across_sets(&rq, sets, MAX_SETS, &nsets, &spread,
                                   &err)) {
-            cli_error("%s", err.msg);
-            json_object_put(root);
-            json_object_put(sets_json);
+            rc = cli_error("%s", err.msg);
             cli_out_discard(&out);
             goto done;
         }
+    }
+    root = json_object_new_object();
+    sets_json = json_object_new_array();
+    int shown = 0;
+    for (int si = 0; si < c->nsets; si++) {
+        dk_design_request r = rq;
+        if (cm.all)
+            r.set_name = c->sets[si].name;
+        else if (si > 0)
+            break;
+        if ((rc = solve(&r, d, ncpm, curve))) {
+            if (!cm.all) {
+                cli_out_discard(&out);
+                goto done;
+            }
+            rc = CLI_FAIL;
+            continue;
+        }
+        if (curve) {
+            cli_set_output_mode(CLI_CSV);
+            if ((rc = print_curve(out.f, d))) {
+                cli_out_discard(&out);
+                goto done;
+            }
+            shown = 1;
+            break;
+        }
         json_object *sj = json_object_new_array();
+        for (int k = 0; k < d->nsol; k++)
+            json_object_array_add(sj, solution_json(d, &d->sol[k],
+                                                    external(d, &d->sol[k],
+                                                             cut)));
         if (!cm.json) {
-            fprintf(out.f, "%s%s, data set %s%s: ", total ? "\n" : "",
-                    pb.crystal->id, pb.set->name,
-                    pb.set->from_memory ? " [from memory]" : "");
-            if (pb.shg)
-                fprintf(out.f, "SHG of %.6g um at %.4g C",
-                        pb.waves.signal_um, pb.temp_c);
-            else
-                fprintf(out.f, "pump %.6g, signal %.6g, idler %.6g um at "
-                               "%.4g C",
-                        pb.waves.pump_um, pb.waves.signal_um,
-                        pb.waves.idler_um, pb.temp_c);
-            if (magic || pb.alpha_rad != 0)
-                fprintf(out.f, ", noncollinear alpha %.3f deg (internal)",
-                        pb.alpha_rad / DEG);
-            fputc('\n', out.f);
+            print_header(out.f, d, shown == 0);
+            print_table(out.f, d, cut);
         }
-        int shown = 0;
-        for (int k = 0; k < n; k++) {
-            if (want_type && strcmp(sol[k].type, want_type))
-                continue;
-            double ext = isfinite(cut)
-                             ? dk_external_angle(sol[k].theta_rad, cut,
-                                                 input_index(&sol[k], pb.shg))
-                             : NAN;
-            if (ncpm) {
-                if (!cm.json) {
-                    if (!shown)
-                        fprintf(out.f, "  noncritical phase matching along a "
-                                       "principal axis:\n  %-6s %-5s %10s "
-                                       "%9s\n",
-                                "modes", "axis", "T C", "d_eff");
-                    fprintf(out.f, "  %-6s %-5s %10.2f %9.3f\n", sol[k].pol,
-                            sol[k].plane, sol[k].n[0], sol[k].deff_pm_per_v);
-                }
-                json_object *o = json_object_new_object();
-                json_object_object_add(o, "type",
-                                       json_object_new_string(sol[k].type));
-                json_object_object_add(o, "pol",
-                                       json_object_new_string(sol[k].pol));
-                json_object_object_add(o, "axis",
-                                       json_object_new_string(sol[k].plane));
-                json_object_object_add(o, "temperature_C",
-                                       cli_json_num(sol[k].n[0]));
-                if (isfinite(sol[k].deff_pm_per_v))
-                    json_object_object_add(o, "deff_pm_per_V",
-                                           cli_json_num(sol[k].deff_pm_per_v));
-                json_object_array_add(sj, o);
-            } else {
-                if (!cm.json) {
-                    if (!shown)
-                        fprintf(out.f, "  %-4s %-8s %-4s %8s %8s %9s   %-20s%s\n",
-                                "type", "modes", "plane", "theta", "phi",
-                                "d_eff", "walk-off mrad s i p",
-                                isfinite(cut) ? "  ext deg" : "");
-                    print_solution(out.f, &sol[k], pb.shg, ext);
-                }
-                json_object *o = solution_json(&sol[k], ext);
-                if (magic)
-                    json_object_object_add(o, "alpha_deg",
-                                           cli_json_num(pb.alpha_rad / DEG));
-                json_object_array_add(sj, o);
-            }
-            if (!ncpm && !magic && (!spread_pol[0] ||
-                                    !strcmp(spread_pol, sol[k].pol))) {
-                double a = strcmp(sol[k].plane, "XY") ? sol[k].theta_rad
-                                                      : sol[k].phi_rad;
-                if (!spread_pol[0] || shown == 0) {
-                    memcpy(spread_pol, sol[k].pol, 4);
-                    spread_lo = fmin(spread_lo, a / DEG);
-                    spread_hi = fmax(spread_hi, a / DEG);
-                    spread_n++;
-                }
-            }
-            shown++;
-        }
-        if (!shown && !cm.json)
-            fprintf(out.f, "  no phase matching%s\n",
-                    ncpm ? " along X, Y or Z in the temperature range"
-                         : " in any direction");
-        cli_warn_index(pb.set, pb.warnings, pb.waves.idler_um, pb.temp_c);
-        pb.warnings = 0;
         json_object *so = json_object_new_object();
         json_object_object_add(so, "dispersion",
-                               json_object_new_string(pb.set->name));
+                               json_object_new_string(d->set->name));
         json_object_object_add(so, "solutions", json_object_get(sj));
+        json_object_object_add(so, "chosen", json_object_new_int(d->chosen));
         json_object_array_add(sets_json, so);
-        if (total == 0) {
+        if (shown == 0) {
+            json_object_object_add(root, "crystal",
+                                   json_object_new_string(c->id));
             json_object_object_add(root, "dispersion",
-                                   json_object_new_string(pb.set->name));
+                                   json_object_new_string(d->set->name));
+            json_object *wl = json_object_new_object();
+            json_object_object_add(wl, "pump", cli_json_num(d->waves.pump_um));
+            json_object_object_add(wl, "signal",
+                                   cli_json_num(d->waves.signal_um));
+            json_object_object_add(wl, "idler",
+                                   cli_json_num(d->waves.idler_um));
+            json_object_object_add(root, "wavelengths_um", wl);
+            if (!ncpm)
+                json_object_object_add(root, "temperature_C",
+                                       cli_json_num(d->temp_c));
             json_object_object_add(root, "solutions", json_object_get(sj));
+            json_object_object_add(root, "chosen",
+                                   json_object_new_int(d->chosen));
         }
         json_object_put(sj);
-        total++;
-        if (magic)
-            pb.alpha_rad = 0;
+        shown++;
     }
-    if (!cm.json && cm.all && spread_n > 1)
-        fprintf(out.f, "\nspread over %d data sets (modes %s, first "
-                       "solution): %.3f deg\n",
-                spread_n, spread_pol, spread_hi - spread_lo);
-    if (cm.json && cm.all && spread_n > 1)
-        json_object_object_add(root, "spread_deg",
-                               cli_json_num(spread_hi - spread_lo));
-    if (!cm.json && pb.crystal->has_nonlinear)
-        fprintf(out.f, "\nangles internal, in degrees (theta from Z, phi from "
-                       "X); d_eff in pm/V%s\n",
-                pb.crystal->nl_from_memory
+    if (!shown) {
+        cli_out_discard(&out);
+        rc = CLI_FAIL;
+        goto done;
+    }
+    rc = 0;
+    if (curve) {
+        rc = cli_out_commit(&out);
+        goto done;
+    }
+    for (int i = 0; i < nsets; i++)
+        cli_take_notes(&sets[i].notes);
+    if (!cm.json && cm.all && spread.n > 1)
+        fprintf(out.f, "\nspread over %d data sets (%s, the solution each "
+                       "set chooses): %.3f deg\n",
+                spread.n, spread.quantity, spread.spread);
+    if (!cm.json && c->has_nonlinear)
+        fprintf(out.f, "\nangles internal, in degrees (theta from Z, phi "
+                       "from X); d_eff in pm/V%s\n",
+                c->nl_from_memory
                     ? " from d typed from memory (see 'deltak crystals')"
                     : "");
     if (cm.json) {
-        if (cm.all)
+        if (cm.all) {
             json_object_object_add(root, "sets", json_object_get(sets_json));
-        cli_warnings_to_json(root);
-        cli_out_json(&out, root);
-    } else {
-        json_object_put(root);
+            if (spread.n > 1)
+                json_object_object_add(root, "spread_deg",
+                                       cli_json_num(spread.spread));
+        }
+        cli_notes_to_json(root);
+        cli_out_json(&out, json_object_get(root));
     }
-    json_object_put(sets_json);
     rc = cli_out_commit(&out);
 done:
+    json_object_put(root);
+    json_object_put(sets_json);
+    free(d);
+    free(sets);
     dk_db_free(db);
     return rc;
 }

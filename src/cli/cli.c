@@ -2,20 +2,24 @@
  * cli.c - messages, warnings, database loading and buffered output for
  * the command files (see cli.h).
  */
-#include <math.h>
+#include <errno.h>
 #include <getopt.h>
+#include <math.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "cli.h"
+#include "deltak/constants.h"
+#include "deltak/design.h"
 #include "deltak/material.h"
 #include "deltak/units.h"
 
-#define MAX_WARNINGS 64
-
-static char *warnings[MAX_WARNINGS];
-static int nwarnings;
+/* Everything the answer rests on: design notes and the command's own
+ * warnings, shown by cli_warnings_flush(), cli_print_assumed() and
+ * cli_notes_to_json(). */
+static dk_notes notes;
+static int out_mode;   /* CLI_TEXT, CLI_JSON or CLI_CSV */
 
 int
 cli_error(const char *fmt, ...)
@@ -52,19 +56,18 @@ cli_usage_error(const char *const usage[], const char *fmt, ...)
 void
 cli_warn(const char *fmt, ...)
 {
-    char buf[DK_ERROR_MSG_MAX];
+    char buf[DK_NOTE_TEXT_MAX];
     va_list ap;
     va_start(ap, fmt);
     vsnprintf(buf, sizeof buf, fmt, ap);
     va_end(ap);
-    for (int i = 0; i < nwarnings; i++)
-        if (strcmp(warnings[i], buf) == 0)
-            return;
-    if (nwarnings < MAX_WARNINGS) {
-        char *copy = strdup(buf);
-        if (copy)
-            warnings[nwarnings++] = copy;
-    }
+    dk_notes_add(&notes, DK_NOTE_WARNING, "warning", "%s", buf);
+}
+
+void
+cli_take_notes(const dk_notes *from)
+{
+    dk_notes_merge(&notes, from);
 }
 
 void
@@ -73,34 +76,98 @@ cli_warn_index(const dk_dispersion_set *set, unsigned flags, double lambda_um,
 {
     char buf[1024];
     if (set->from_memory)
-        cli_warn("data set '%s' is typed from memory and not yet checked "
-                 "against an independent source (see 'deltak crystals')",
-                 set->name);
+        dk_notes_add(&notes, DK_NOTE_MEMORY, "from-memory:set",
+                     "data set '%s' is typed from memory and not yet checked "
+                     "against an independent source (see 'deltak crystals')",
+                     set->name);
     if (!dk_warning_text(set, flags, lambda_um, temp_c, buf, sizeof buf))
         return;
     for (char *line = strtok(buf, "\n"); line; line = strtok(NULL, "\n"))
-        cli_warn("%s", line);
+        dk_notes_add(&notes, DK_NOTE_RANGE,
+                     strstr(line, " C ") ? "range:temperature"
+                                         : "range:wavelength",
+                     "%s", line);
+}
+
+void
+cli_notes_to_json(json_object *obj)
+{
+    json_object *warn = json_object_new_array(), *all =
+                                                    json_object_new_array();
+    for (int i = 0; i < notes.n; i++) {
+        const dk_note *nt = &notes.item[i];
+        if (nt->kind != DK_NOTE_DEFAULT)
+            json_object_array_add(warn, json_object_new_string(nt->text));
+        json_object *o = json_object_new_object();
+        json_object_object_add(o, "kind",
+                               json_object_new_string(
+                                   dk_note_kind_str(nt->kind)));
+        json_object_object_add(o, "code", json_object_new_string(nt->code));
+        json_object_object_add(o, "text", json_object_new_string(nt->text));
+        json_object_array_add(all, o);
+    }
+    if (json_object_array_length(warn))
+        json_object_object_add(obj, "warnings", warn);
+    else
+        json_object_put(warn);
+    if (json_object_array_length(all))
+        json_object_object_add(obj, "notes", all);
+    else
+        json_object_put(all);
 }
 
 void
 cli_warnings_to_json(json_object *obj)
 {
-    if (!nwarnings)
-        return;
-    json_object *arr = json_object_new_array();
-    for (int i = 0; i < nwarnings; i++)
-        json_object_array_add(arr, json_object_new_string(warnings[i]));
-    json_object_object_add(obj, "warnings", arr);
+    cli_notes_to_json(obj);
+}
+
+void
+cli_print_assumed(FILE *f)
+{
+    int first = 1;
+    for (int i = 0; i < notes.n; i++)
+        if (notes.item[i].kind == DK_NOTE_DEFAULT) {
+            fprintf(f, "%sassumed: %s\n", first ? "\n" : "",
+                    notes.item[i].text);
+            first = 0;
+        }
+}
+
+void
+cli_set_output_mode(int mode)
+{
+    out_mode = mode;
+}
+
+const char *
+cli_csv_flags(unsigned range, int shg, char *buf, size_t n)
+{
+    size_t used = dk_notes_codes(&notes, 1u << DK_NOTE_DEFAULT | 1u << DK_NOTE_MEMORY, buf, n);
+    if (range && used + 1 < n) {
+        if (used)
+            buf[used++] = ';';
+        dk_range_codes(range, shg, buf + used, n - used);
+    }
+    return buf;
 }
 
 void
 cli_warnings_flush(void)
 {
-    for (int i = 0; i < nwarnings; i++) {
-        fprintf(stderr, "warning: %s\n", warnings[i]);
-        free(warnings[i]);
+    for (int i = 0; i < notes.n; i++) {
+        const dk_note *nt = &notes.item[i];
+        if (nt->kind == DK_NOTE_DEFAULT && out_mode != CLI_CSV)
+            continue;
+        fprintf(stderr, "%s: %s\n",
+                nt->kind == DK_NOTE_DEFAULT   ? "note"
+                : nt->kind == DK_NOTE_CAUTION ? "caution"
+                                              : "warning",
+                nt->text);
     }
-    nwarnings = 0;
+    if (notes.dropped)
+        fprintf(stderr, "warning: %d more notes not shown\n", notes.dropped);
+    dk_notes_clear(&notes);
 }
 
 int
@@ -164,6 +231,9 @@ cli_out_open(cli_out *o)
 int
 cli_out_commit(cli_out *o)
 {
+    /* Text answers end with the choices they rest on. */
+    if (out_mode == CLI_TEXT)
+        cli_print_assumed(o->f);
     if (fclose(o->f) != 0) {
         free(o->buf);
         return cli_error("out of memory");
@@ -297,6 +367,7 @@ cli_common_finish(const cli_common *cm, int argc, char **argv, int allow_all,
     if (cm->all && cm->set_name)
         return cli_usage_error(usage, "choose one of --dispersion and "
                                       "--all-sets");
+    cli_set_output_mode(cm->json ? CLI_JSON : cm->csv ? CLI_CSV : CLI_TEXT);
     return 0;
 }
 
@@ -305,4 +376,69 @@ cli_bad_option(char **argv, const char *const usage[])
 {
     return cli_usage_error(usage, "unknown or incomplete option '%s'",
                            argv[optind - 1]);
+}
+
+/* Strict reading of a plain number: no empty text, NaN, infinity,
+ * hexadecimal form or trailing characters. */
+static int
+plain_number(const char *text, double *v)
+{
+    if (!text || !*text)
+        return 0;
+    for (const char *c = text; *c; c++)
+        if (*c == 'x' || *c == 'X' || *c == 'n' || *c == 'N' || *c == 'i' ||
+            *c == 'I')
+            return 0;
+    char *end;
+    *v = strtod(text, &end);
+    return end != text && !*end && isfinite(*v);
+}
+
+int
+cli_real(const char *opt, const char *text, double lo, double hi, double *out,
+         const char *const usage[])
+{
+    double v;
+    if (!plain_number(text, &v))
+        return cli_usage_error(usage, "%s '%s' must be a number", opt,
+                               text ? text : "");
+    if (!(v >= lo && v <= hi))
+        return cli_usage_error(usage, "%s %s must lie between %g and %g", opt,
+                               text, lo, hi);
+    *out = v;
+    return 0;
+}
+
+int
+cli_int(const char *opt, const char *text, long lo, long hi, int *out,
+        const char *const usage[])
+{
+    char *end;
+    if (!text || !*text || strspn(text, "+-0123456789") != strlen(text))
+        return cli_usage_error(usage, "%s '%s' must be a whole number", opt,
+                               text ? text : "");
+    errno = 0;
+    long v = strtol(text, &end, 10);
+    if (errno || *end || v < lo || v > hi)
+        return cli_usage_error(usage, "%s %s must be a whole number from %ld "
+                                      "to %ld",
+                               opt, text, lo, hi);
+    *out = (int)v;
+    return 0;
+}
+
+int
+cli_angle(const char *opt, const char *text, double lo_deg, double hi_deg,
+          double *rad, const char *const usage[])
+{
+    double v;
+    if (!plain_number(text, &v))
+        return cli_usage_error(usage, "%s '%s' must be an angle in degrees, "
+                                      "e.g. 22.8",
+                               opt, text ? text : "");
+    if (!(v >= lo_deg && v <= hi_deg))
+        return cli_usage_error(usage, "%s %s must lie between %g and %g deg",
+                               opt, text, lo_deg, hi_deg);
+    *rad = v * DK_RAD_PER_DEG;
+    return 0;
 }

@@ -14,9 +14,15 @@
 #include "deltak/crystal.h"
 #include "deltak/dispersion.h"
 #include "deltak/interaction.h"
+#include "deltak/notes.h"
 
 #define CLI_FAIL 1
 #define CLI_USAGE 2
+
+/* Output modes (cli_set_output_mode). */
+#define CLI_TEXT 0
+#define CLI_JSON 1
+#define CLI_CSV 2
 
 /* Print "error: ..." on stderr; returns CLI_FAIL. */
 int cli_error(const char *fmt, ...)
@@ -34,6 +40,45 @@ int cli_usage_error(const char *const usage[], const char *fmt, ...)
 
 /* Print the usage lines on @f. */
 void cli_print_usage(FILE *f, const char *const usage[]);
+
+/*
+ * Notes: everything an answer rests on. Design notes (deltak/notes.h) and
+ * the command's own warnings are collected here. Text answers end with
+ * "assumed: ..." lines for the choices made by default (cli_out_commit
+ * adds them); warnings, range flags and cautions go to stderr
+ * (cli_warnings_flush, called by main) and, in JSON, to "warnings"
+ * (texts) and "notes" (kind, code, text); CSV rows carry the codes in a
+ * flags column (cli_csv_flags).
+ */
+
+/* Add a design's notes. */
+void cli_take_notes(const dk_notes *n);
+
+/* Text, JSON or CSV: how notes are shown (set by cli_common_finish). */
+void cli_set_output_mode(int mode);
+
+/* Print the default choices as "assumed: ..." lines on @f. */
+void cli_print_assumed(FILE *f);
+
+/* Add "warnings" and "notes" to @obj. */
+void cli_notes_to_json(json_object *obj);
+
+/* The CSV flag column: codes of the default choices and from-memory data,
+ * then the range codes of @range. Returns @buf. */
+const char *cli_csv_flags(unsigned range, int shg, char *buf, size_t n);
+
+/*
+ * Strict numbers for options: no empty text, NaN, infinity, hexadecimal
+ * or trailing characters, and inside [lo, hi]. Print the error with the
+ * option name and return CLI_USAGE, or 0.
+ */
+int cli_real(const char *opt, const char *text, double lo, double hi,
+             double *out, const char *const usage[]);
+int cli_int(const char *opt, const char *text, long lo, long hi, int *out,
+            const char *const usage[]);
+/* Degrees in the text, radians out. */
+int cli_angle(const char *opt, const char *text, double lo_deg, double hi_deg,
+              double *rad, const char *const usage[]);
 
 /* Record a warning (duplicates are dropped). Printed by cli_finish(). */
 void cli_warn(const char *fmt, ...)

@@ -14,6 +14,7 @@
 #include "deltak/gain_spectrum.h"
 #include "deltak/plot.h"
 #include "deltak/pulse.h"
+#include "deltak/constants.h"
 #include "deltak/units.h"
 
 static const char *const gain_usage[] = {
@@ -22,7 +23,9 @@ static const char *const gain_usage[] = {
     "            [--intensity <I>] [--seed <I>] [--power <P> [--waist <w0>]] "
     "[--depletion]",
     "            [--temp <T>] [--period <P> | --type I|II [--pol <sip>] "
-    "[--theta <deg>]]",
+    "[--theta <deg>] [--solution <n>]]",
+    "            [--noncollinear <deg> | --broadband] [--phi <deg>] "
+    "[--plane XY|YZ|XZ]",
     "            [--dispersion <set>] [--json] [--spectrum] [--plot <file>] "
     "[--size <s>]",
     "",
@@ -41,7 +44,7 @@ static const char *const gain_usage[] = {
     "  --plot <file>    the gain spectrum as a figure (.pdf, .svg, .png)",
     NULL};
 
-#define DEG (M_PI / 180)
+#define ALLOWED CLI_D_ALL
 #define NSPEC 241
 
 static void
@@ -60,7 +63,6 @@ cmd_gain(int argc, char **argv)
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"length", required_argument, NULL, 'L'},
         {"intensity", required_argument, NULL, 'I'},
         {"seed", required_argument, NULL, 'E'},
         {"power", required_argument, NULL, 'W'},
@@ -72,16 +74,19 @@ cmd_gain(int argc, char **argv)
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *len = NULL, *inten_s = NULL, *seed_s = NULL, *power_s = NULL,
+    const char *inten_s = NULL, *seed_s = NULL, *power_s = NULL,
                *waist_s = NULL, *plot = NULL, *size = "single";
     int depletion = 0, spectrum = 0, ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
             continue;
+        if ((rc = cli_design_option(ch, opts, &da, gain_usage)) == 1)
+            continue;
+        if (rc)
+            return rc;
         switch (ch) {
-        case 'L': len = optarg; break;
         case 'I': inten_s = optarg; break;
         case 'E': seed_s = optarg; break;
         case 'W': power_s = optarg; break;
@@ -96,39 +101,37 @@ cmd_gain(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 0, gain_usage)))
         return rc;
-    cli_design_spec sp;
-    dk_design d = {0};
+    if (cm.csv)
+        return cli_usage_error(gain_usage, "--csv: use --spectrum for the "
+                                           "gain spectrum as CSV");
     dk_error err = {0};
-    if ((rc = cli_design_parse(&da, &sp, 1, gain_usage)))
-        return rc;
-    d.shg = sp.shg;
-    if (!len)
+    int shg = cli_design_given(&da, OPT_FUNDAMENTAL);
+    if (!cli_design_given(&da, OPT_LENGTH))
         return cli_usage_error(gain_usage, "--length is required, e.g. "
                                            "--length 10mm");
     double inten = NAN, seed = NAN, power = NAN, waist_mm = NAN, wmm = 0,
            hmm = 0;
-    if (dk_parse_length(len, &d.length_mm, &err) ||
-        (inten_s && dk_parse_intensity(inten_s, &inten, &err)) ||
+    if ((inten_s && dk_parse_intensity(inten_s, &inten, &err)) ||
         (seed_s && dk_parse_intensity(seed_s, &seed, &err)) ||
         (power_s && dk_parse_power(power_s, &power, &err)) ||
         (waist_s && dk_parse_length(waist_s, &waist_mm, &err)) ||
         dk_plot_size_parse(size, &wmm, &hmm, &err))
         return cli_usage_error(gain_usage, "%s", err.msg);
-    if (d.shg && (spectrum || plot || seed_s))
+    if (shg && (spectrum || plot || seed_s))
         return cli_usage_error(gain_usage, "--spectrum, --plot and --seed "
                                            "are for three-wave mixing, not "
                                            "SHG");
-    if (!d.shg && (power_s || depletion))
+    if (!shg && (power_s || depletion))
         return cli_usage_error(gain_usage, "--power and --depletion are for "
                                            "SHG (--fundamental)");
     if (depletion && !inten_s)
         return cli_usage_error(gain_usage, "--depletion needs --intensity");
     if (waist_s && !power_s)
         return cli_usage_error(gain_usage, "--waist needs --power");
-    if (!d.shg && !inten_s)
+    if (!shg && !inten_s)
         return cli_usage_error(gain_usage, "give the pump --intensity, e.g. "
                                            "--intensity 5GW/cm2");
-    if (d.shg && !inten_s && !power_s)
+    if (shg && !inten_s && !power_s)
         return cli_usage_error(gain_usage, "give --intensity (plane wave) or "
                                            "--power (focused beam)");
 
@@ -137,59 +140,66 @@ cmd_gain(int argc, char **argv)
         return CLI_FAIL;
     rc = CLI_FAIL;
     dk_plot *fig = NULL;
+    json_object *o = NULL;
+    dk_design *dp = malloc(sizeof *dp);
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
-    if (!set)
+    dk_design_request rq;
+    if (!c || !dp)
         goto done;
-    int qpm;
-    dk_pulse_props pp;
-    if (cli_design_setup(&sp, c, set, &d, &qpm))
+    if ((rc = cli_design_request(&da, ALLOWED, 1, c, cm.crystal, cm.set_name,
+                                 &rq, gain_usage)) ||
+        (rc = cli_design_make(&rq, dp, 1)))
         goto done;
-    if (dk_pulse_props_of(&d, &pp, &err)) {
-        cli_error("%s", err.msg);
-        goto done;
-    }
+    rc = CLI_FAIL;
+#define d (*dp)
+    int qpm = d.scheme == DK_SCHEME_QPM;
     double deff = dk_design_deff(&d);
     if (!isfinite(deff) || deff == 0) {
-        cli_error("%s has no usable d_eff for this design (check the "
-                  "crystal file's nonlinear coefficients)",
-                  c->id);
+        cli_error("%s has no usable d_eff for this design (%s)", c->id,
+                  c->has_nonlinear ? "it vanishes for these modes and this "
+                                     "direction; see 'deltak angle' for "
+                                     "the others"
+                                   : "the crystal file gives no nonlinear "
+                                     "coefficients");
         goto done;
     }
-    cli_warn_caution(c, d.temp_c);
     if (isfinite(inten))
         damage_check(c, inten);
-    if (c->nl_from_memory)
-        cli_warn("the d coefficients of %s are typed from memory; treat "
-                 "efficiencies as estimates",
-                 c->id);
-    json_object *o = json_object_new_object();
+    o = json_object_new_object();
     json_object_object_add(o, "crystal", json_object_new_string(c->id));
-    json_object_object_add(o, "dispersion", json_object_new_string(set->name));
+    json_object_object_add(o, "dispersion",
+                           json_object_new_string(d.set->name));
     json_object_object_add(o, "design",
                            json_object_new_string(qpm ? "qpm"
                                                       : "birefringent"));
     json_object_object_add(o, "length_mm", cli_json_num(d.length_mm));
     json_object_object_add(o, "temperature_C", cli_json_num(d.temp_c));
     json_object_object_add(o, "deff_pm_per_V", cli_json_num(deff));
+    if (!qpm && d.angle.alpha_rad != 0)
+        json_object_object_add(o, "alpha_deg",
+                               cli_json_num(d.angle.alpha_rad /
+                                            DK_RAD_PER_DEG));
     cli_out out;
-    if (cli_out_open(&out)) {
-        json_object_put(o);
+    if (cli_out_open(&out))
         goto done;
-    }
     FILE *f = out.f;
     fprintf(f, "%s (data set %s), %s design, %.4g mm, %.4g C, d_eff %.3g "
                "pm/V\n",
-            c->id, set->name, qpm ? "QPM" : "birefringent", d.length_mm,
+            c->id, d.set->name, qpm ? "QPM" : "birefringent", d.length_mm,
             d.temp_c, deff);
-    const double nf = pp.w[0].n, nsh = pp.w[2].n, lam = d.waves.signal_um;
+    if (!qpm)
+        fprintf(f, "  modes %s, theta %.3f deg, phi %.2f deg%s", d.pol,
+                d.theta_rad / DK_RAD_PER_DEG, d.phi_rad / DK_RAD_PER_DEG,
+                d.angle.alpha_rad != 0 ? "" : "\n");
+    if (!qpm && d.angle.alpha_rad != 0)
+        fprintf(f, ", noncollinear alpha %+.3f deg\n",
+                d.angle.alpha_rad / DK_RAD_PER_DEG);
     dk_status st = DK_OK;
     if (d.shg) {
-        fprintf(f, "  SHG of %.6g um\n", lam);
+        fprintf(f, "  SHG of %.6g um\n", d.waves.signal_um);
         if (isfinite(inten)) {
             double eta;
-            st = dk_shg_efficiency(deff, nf, nsh, lam, d.length_mm, inten, 0,
-                                   &eta, &err);
+            st = dk_design_shg_plane(&d, deff, inten, &eta, &err);
             if (!st) {
                 fprintf(f, "\n  plane wave, %.4g GW/cm2, low conversion: "
                            "efficiency %.4g %%%s\n",
@@ -204,125 +214,111 @@ cmd_gain(int argc, char **argv)
             }
         }
         if (!st && depletion) {
-            dk_twm m;
             enum { NZ = 11 };
-            double z[NZ];
-            dk_twm_point pt[NZ];
-            for (int k = 0; k < NZ; k++)
-                z[k] = d.length_mm * k / (NZ - 1);
-            st = dk_twm_shg_init(&m, lam, nf, nsh, deff, inten, 0, &err);
-            if (!st)
-                st = dk_twm_propagate(&m, z, NZ, pt, &err);
+            double z[NZ], eta[NZ];
+            st = dk_design_shg_depleted(&d, deff, inten, NZ, z, eta, &err);
             if (!st) {
                 fprintf(f, "\n  with pump depletion (plane wave, coupled-wave "
                            "equations):\n  %10s %14s\n",
                         "z mm", "efficiency %");
                 json_object *arr = json_object_new_array();
                 for (int k = 0; k < NZ; k++) {
-                    double eta = pt[k].intensity_gw_per_cm2[2] / inten;
-                    fprintf(f, "  %10.4g %14.4g\n", z[k], 100 * eta);
+                    fprintf(f, "  %10.4g %14.4g\n", z[k], 100 * eta[k]);
                     json_object *e = json_object_new_object();
                     json_object_object_add(e, "z_mm", cli_json_num(z[k]));
-                    json_object_object_add(e, "efficiency", cli_json_num(eta));
+                    json_object_object_add(e, "efficiency",
+                                           cli_json_num(eta[k]));
                     json_object_array_add(arr, e);
                 }
                 json_object_object_add(o, "depletion", arr);
             }
         }
         if (!st && isfinite(power)) {
-            double b, xi, h, sigma, xi_opt, h_opt, eta;
-            double rho = pp.walkoff_rad[0];
-            st = dk_bk_walkoff_b(rho, d.length_mm, nf, lam, &b, &err);
-            if (!st)
-                st = dk_bk_optimum(b, &xi_opt, &h_opt, NULL, &err);
-            if (!st && isfinite(waist_mm)) {
-                st = dk_bk_xi(d.length_mm, waist_mm * 1e3, nf, lam, &xi,
-                              &err);
-            } else if (!st) {
-                xi = xi_opt;
-                /* w0 from b = L/ξ = 2π n w0²/λ. */
-                double bmm = d.length_mm / xi;
-                waist_mm = sqrt(bmm * lam * 1e-3 / (2 * M_PI * nf));
-            }
-            if (!st)
-                st = dk_bk_h_max(xi, b, &h, &sigma, &err);
-            if (!st)
-                st = dk_bk_shg_efficiency(deff, nf, nsh, lam, d.length_mm,
-                                          power, h, &eta, &err);
+            dk_focus_result r;
+            st = dk_design_shg_focused(&d, deff, power,
+                                       isfinite(waist_mm) ? waist_mm * 1e3
+                                                          : NAN,
+                                       &r, &err);
             if (!st) {
                 fprintf(f, "\n  focused Gaussian beam, %.4g W (Boyd-Kleinman):"
                            "\n    waist %.4g um, xi = L/b = %.4g, walk-off "
                            "B = %.3g, h = %.4g\n    efficiency %.4g %% "
                            "(optimum for this B: xi = %.3g, h = %.4g)\n",
-                        power, waist_mm * 1e3, xi, b, h, 100 * eta, xi_opt,
-                        h_opt);
+                        power, r.waist_um, r.xi, r.walkoff_b, r.h,
+                        100 * r.efficiency, r.xi_opt, r.h_opt);
                 json_object *bk = json_object_new_object();
                 json_object_object_add(bk, "power_W", cli_json_num(power));
                 json_object_object_add(bk, "waist_um",
-                                       cli_json_num(waist_mm * 1e3));
-                json_object_object_add(bk, "xi", cli_json_num(xi));
-                json_object_object_add(bk, "B", cli_json_num(b));
-                json_object_object_add(bk, "h", cli_json_num(h));
-                json_object_object_add(bk, "efficiency", cli_json_num(eta));
-                json_object_object_add(bk, "xi_optimum", cli_json_num(xi_opt));
-                json_object_object_add(bk, "h_optimum", cli_json_num(h_opt));
+                                       cli_json_num(r.waist_um));
+                json_object_object_add(bk, "xi", cli_json_num(r.xi));
+                json_object_object_add(bk, "B", cli_json_num(r.walkoff_b));
+                json_object_object_add(bk, "h", cli_json_num(r.h));
+                json_object_object_add(bk, "efficiency",
+                                       cli_json_num(r.efficiency));
+                json_object_object_add(bk, "xi_optimum",
+                                       cli_json_num(r.xi_opt));
+                json_object_object_add(bk, "h_optimum", cli_json_num(r.h_opt));
                 json_object_object_add(o, "focused", bk);
             }
         }
     } else {
-        double gamma, g0, lo, hi, bw_thz = NAN;
+        dk_opa_result r;
         const dk_waves *w = &d.waves;
         fprintf(f, "  pump %.6g um, signal %.6g um, idler %.6g um, pump "
                    "%.4g GW/cm2\n",
                 w->pump_um, w->signal_um, w->idler_um, inten);
-        st = dk_opa_gamma_per_mm(deff, pp.w[2].n, pp.w[0].n, pp.w[1].n,
-                                 w->signal_um, w->idler_um, inten, &gamma,
-                                 &err);
-        if (!st)
-            st = dk_opa_signal_gain(gamma, 0, d.length_mm, &g0, &err);
-        if (!st)
-            st = dk_design_gain_fwhm(&d, gamma, &lo, &hi, &err);
-        if (!st && pp.gvm_fs_per_mm[2] != 0)
-            dk_opa_bandwidth_thz(gamma, d.length_mm, pp.gvm_fs_per_mm[2],
-                                 &bw_thz, NULL);
+        st = dk_design_opa(&d, inten, &r, &err);
+        if (!st && !r.have_band) {
+            cli_warn("gain bandwidth not found: %s", err.msg);
+        }
         if (!st) {
-            double il = 1 / (1 / w->pump_um - 1 / lo);
-            double ih = 1 / (1 / w->pump_um - 1 / hi);
-            double thz = DK_C_M_PER_S * (1 / lo - 1 / hi) * 1e-6;
             fprintf(f, "\n  coupling Gamma %.4g /mm, Gamma L = %.4g\n"
                        "  small-signal gain at phase matching %.4g (%.3g "
-                       "dB)\n"
-                       "  gain bandwidth (FWHM of G - 1): signal %.4g-%.4g um "
-                       "(%.4g nm, %.4g cm-1, %.4g THz)\n"
-                       "                                   idler %.4g-%.4g um "
-                       "(%.4g nm)\n",
-                    gamma, gamma * d.length_mm, g0, 10 * log10(g0), lo, hi,
-                    (hi - lo) * 1e3, 1e4 * (1 / lo - 1 / hi), thz, ih, il,
-                    (il - ih) * 1e3);
-            if (isfinite(bw_thz))
+                       "dB)\n",
+                    r.gamma_per_mm, r.gamma_per_mm * d.length_mm, r.gain,
+                    10 * log10(r.gain));
+            if (r.have_band)
+                fprintf(f,
+                        "  gain bandwidth (FWHM of G - 1): signal %.4g-%.4g "
+                        "um (%.4g nm, %.4g cm-1, %.4g THz)\n"
+                        "                                   idler %.4g-%.4g "
+                        "um (%.4g nm)\n",
+                        r.signal_lo_um, r.signal_hi_um,
+                        (r.signal_hi_um - r.signal_lo_um) * 1e3,
+                        1e4 * (1 / r.signal_lo_um - 1 / r.signal_hi_um),
+                        r.band_thz, r.idler_lo_um, r.idler_hi_um,
+                        (r.idler_hi_um - r.idler_lo_um) * 1e3);
+            if (isfinite(r.first_order_thz))
                 fprintf(f, "  first-order estimate from the signal-idler GVM "
-                           "(%.3g fs/mm): %.4g THz\n",
-                        pp.gvm_fs_per_mm[2], bw_thz);
+                           "(%.3g fs/mm%s): %.4g THz\n",
+                        r.pulse.gvm_fs_per_mm[2],
+                        r.pulse.noncollinear ? ", projected" : "",
+                        r.first_order_thz);
             json_object_object_add(o, "intensity_GW_per_cm2",
                                    cli_json_num(inten));
-            json_object_object_add(o, "gamma_per_mm", cli_json_num(gamma));
-            json_object_object_add(o, "gain", cli_json_num(g0));
+            json_object_object_add(o, "gamma_per_mm",
+                                   cli_json_num(r.gamma_per_mm));
+            json_object_object_add(o, "gain", cli_json_num(r.gain));
             json_object *bw = json_object_new_object();
-            json_object_object_add(bw, "signal_nm",
-                                   cli_json_num((hi - lo) * 1e3));
-            json_object_object_add(bw, "idler_nm",
-                                   cli_json_num((il - ih) * 1e3));
-            json_object_object_add(bw, "THz", cli_json_num(thz));
-            if (isfinite(bw_thz))
+            if (r.have_band) {
+                json_object_object_add(
+                    bw, "signal_nm",
+                    cli_json_num((r.signal_hi_um - r.signal_lo_um) * 1e3));
+                json_object_object_add(
+                    bw, "idler_nm",
+                    cli_json_num((r.idler_hi_um - r.idler_lo_um) * 1e3));
+                json_object_object_add(bw, "THz", cli_json_num(r.band_thz));
+            }
+            if (isfinite(r.first_order_thz))
                 json_object_object_add(bw, "first_order_THz",
-                                       cli_json_num(bw_thz));
+                                       cli_json_num(r.first_order_thz));
             json_object_object_add(o, "gain_fwhm", bw);
             if (isfinite(seed)) {
                 double out_i;
-                if (!dk_mixing_intensity_gw_per_cm2(deff, pp.w[2].n, pp.w[0].n,
-                                                    pp.w[1].n, w->idler_um,
-                                                    d.length_mm, inten, seed,
-                                                    0, &out_i, NULL)) {
+                const dk_pulse_props *pp = &r.pulse;
+                if (!dk_mixing_intensity_gw_per_cm2(
+                        deff, pp->w[2].n, pp->w[0].n, pp->w[1].n, w->idler_um,
+                        d.length_mm, inten, seed, 0, &out_i, NULL)) {
                     fprintf(f, "  DFG with a %.4g GW/cm2 signal, low "
                                "conversion: idler %.4g MW/cm2\n",
                             seed, out_i * 1e3);
@@ -330,28 +326,37 @@ cmd_gain(int argc, char **argv)
                                            cli_json_num(out_i));
                 }
             }
-            if (spectrum || plot) {
+            if ((spectrum || plot) && !r.have_band) {
+                st = dk_error_set(&err, DK_ENOROOT,
+                                  "no gain spectrum: the band edges were "
+                                  "not found");
+            } else if (spectrum || plot) {
                 double xs[NSPEC], gs[NSPEC];
-                double x0 = w->signal_um, span = 2 * (hi - lo);
-                for (int k = 0; k < NSPEC; k++) {
-                    xs[k] = x0 - span + 2 * span * k / (NSPEC - 1);
-                    gs[k] = dk_design_gain(&d, gamma, xs[k]);
-                }
-                if (spectrum && !cm.json) {
+                double x0 = w->signal_um,
+                       span = 2 * (r.signal_hi_um - r.signal_lo_um);
+                st = dk_design_gain_spectrum(&d, r.gamma_per_mm, x0 - span,
+                                             x0 + span, NSPEC, xs, gs, &err);
+                if (!st && spectrum && !cm.json) {
                     /* The CSV replaces the text answer. */
-                    fclose(f);
-                    free(out.buf);
-                    if (cli_out_open(&out)) {
-                        json_object_put(o);
+                    cli_out_discard(&out);
+                    if (cli_out_open(&out))
                         goto done;
-                    }
                     f = out.f;
-                    fprintf(f, "signal_um,idler_um,gain\n");
-                    for (int k = 0; k < NSPEC; k++)
-                        fprintf(f, "%.8g,%.8g,%.8g\n", xs[k],
-                                1 / (1 / w->pump_um - 1 / xs[k]), gs[k]);
+                    cli_set_output_mode(CLI_CSV);
+                    char flags[256];
+                    fprintf(f, "signal_um,idler_um,gain,flags\n");
+                    for (int k = 0; k < NSPEC; k++) {
+                        dk_waves wk = *w;
+                        wk.signal_um = xs[k];
+                        wk.idler_um = dk_third_wave_um(w->pump_um, xs[k]);
+                        fprintf(f, "%.8g,%.8g,%.8g,%s\n", xs[k], wk.idler_um,
+                                gs[k],
+                                cli_csv_flags(dk_design_range_flags(
+                                                  &d, &wk, d.temp_c),
+                                              0, flags, sizeof flags));
+                    }
                 }
-                if (plot) {
+                if (!st && plot) {
                     st = dk_plot_new(wmm, hmm, &fig, &err);
                     if (!st)
                         st = dk_plot_set_xlabel(
@@ -360,7 +365,8 @@ cmd_gain(int argc, char **argv)
                         st = dk_plot_set_ylabel(fig, "Parametric gain G",
                                                 &err);
                     if (!st)
-                        st = dk_plot_add_band(fig, lo, hi, "FWHM", &err);
+                        st = dk_plot_add_band(fig, r.signal_lo_um,
+                                              r.signal_hi_um, "FWHM", &err);
                     if (!st)
                         st = dk_plot_add_line(fig, xs, gs, NSPEC, NULL, &err);
                     if (!st)
@@ -375,29 +381,27 @@ cmd_gain(int argc, char **argv)
     }
     if (st) {
         cli_error("%s", err.msg);
-        json_object_put(o);
         cli_out_discard(&out);
         goto done;
     }
     if (cm.json) {
         /* Replace the text with the JSON object. */
-        fclose(f);
-        free(out.buf);
-        if (cli_out_open(&out)) {
-            json_object_put(o);
+        cli_out_discard(&out);
+        if (cli_out_open(&out))
             goto done;
-        }
-        cli_warnings_to_json(o);
+        cli_notes_to_json(o);
         cli_out_json(&out, o);
-    } else {
-        json_object_put(o);
-        if (!spectrum)
-            fprintf(out.f, "\n  plane-wave and Gaussian-beam estimates; real "
-                           "beams, losses and thermal effects lower them\n");
+        o = NULL;
+    } else if (!spectrum) {
+        fprintf(out.f, "\n  plane-wave and Gaussian-beam estimates; real "
+                       "beams, losses and thermal effects lower them\n");
     }
     rc = cli_out_commit(&out);
+#undef d
 done:
+    json_object_put(o);
     dk_plot_free(fig);
+    free(dp);
     dk_db_free(db);
     return rc;
 }

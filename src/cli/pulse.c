@@ -12,13 +12,16 @@
 #include "commands.h"
 #include "design_args.h"
 #include "deltak/pulse.h"
+#include "deltak/constants.h"
 #include "deltak/units.h"
 
 static const char *const pulse_usage[] = {
     "deltak pulse --crystal <name> (--fundamental <wl> | two of --pump/"
     "--signal/--idler)",
     "             [--temp <T>] [--period <P> | --type I|II [--pol <sip>] "
-    "[--theta <deg>]]",
+    "[--theta <deg>] [--solution <n>]]",
+    "             [--noncollinear <deg> | --broadband] [--phi <deg>] "
+    "[--plane XY|YZ|XZ]",
     "             [--duration <tau>] [--waist <w0>] [--length <L>] "
     "[--dispersion <set>] [--json]",
     "",
@@ -27,10 +30,15 @@ static const char *const pulse_usage[] = {
     "  --waist <w0>      beam waist radius (e.g. 100um): walk-off aperture "
     "lengths",
     "  --length <L>      crystal length: delay accumulated over it",
-    "Poled crystals get the QPM design unless --type or --theta is given.",
+    "Noncollinear designs project the GVM as for noncollinear OPAs: pairs "
+    "with the pump along the pump,",
+    "signal-idler along the signal (zero at the broadband angle).",
+    "Poled crystals get the QPM design unless --type or an angle option is "
+    "given (--scheme overrides).",
     NULL};
 
-#define DEG (M_PI / 180)
+#define DEG DK_RAD_PER_DEG
+#define ALLOWED CLI_D_ALL
 
 static const char *const wave_names[3] = {"signal", "idler", "pump"};
 static const char *const pair_names[3] = {"signal_pump", "idler_pump",
@@ -55,21 +63,23 @@ cmd_pulse(int argc, char **argv)
         CLI_DESIGN_OPTIONS,
         {"duration", required_argument, NULL, 'D'},
         {"waist", required_argument, NULL, 'W'},
-        {"length", required_argument, NULL, 'L'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *dur_s = NULL, *waist_s = NULL, *len_s = NULL;
+    const char *dur_s = NULL, *waist_s = NULL;
     int ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
             continue;
+        if ((rc = cli_design_option(ch, opts, &da, pulse_usage)) == 1)
+            continue;
+        if (rc)
+            return rc;
         switch (ch) {
         case 'D': dur_s = optarg; break;
         case 'W': waist_s = optarg; break;
-        case 'L': len_s = optarg; break;
         case 'h': cli_print_usage(stdout, pulse_usage); return 0;
         default: return cli_bad_option(argv, pulse_usage);
         }
@@ -79,33 +89,35 @@ cmd_pulse(int argc, char **argv)
     if (cm.csv)
         return cli_usage_error(pulse_usage, "--csv is not offered here; use "
                                             "--json");
-    cli_design_spec sp;
     dk_error err = {0};
-    double tau = NAN, waist_mm = NAN, len_mm = NAN;
-    if ((rc = cli_design_parse(&da, &sp, 1, pulse_usage)))
-        return rc;
+    double tau = NAN, waist_mm = NAN;
     if ((dur_s && dk_parse_duration(dur_s, &tau, &err)) ||
-        (waist_s && dk_parse_length(waist_s, &waist_mm, &err)) ||
-        (len_s && dk_parse_length(len_s, &len_mm, &err)))
+        (waist_s && dk_parse_length(waist_s, &waist_mm, &err)))
         return cli_usage_error(pulse_usage, "%s", err.msg);
 
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
     rc = CLI_FAIL;
-    dk_design d = {0};
-    d.length_mm = 1;
-    int qpm;
+    dk_design *dp = malloc(sizeof *dp);
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
+    dk_design_request rq;
     dk_pulse_props pp;
-    if (!set || cli_design_setup(&sp, c, set, &d, &qpm))
+    if (!c || !dp)
         goto done;
+    if ((rc = cli_design_request(&da, ALLOWED, 1, c, cm.crystal, cm.set_name,
+                                 &rq, pulse_usage)) ||
+        (rc = cli_design_make(&rq, dp, 1)))
+        goto done;
+    rc = CLI_FAIL;
+#define d (*dp)
+    const dk_dispersion_set *set = d.set;
+    int qpm = d.scheme == DK_SCHEME_QPM;
+    double len_mm = d.length_mm;
     if (dk_pulse_props_of(&d, &pp, &err)) {
         cli_error("%s", err.msg);
         goto done;
     }
-    cli_warn_caution(c, d.temp_c);
     cli_out out;
     if (cli_out_open(&out))
         goto done;
@@ -129,6 +141,17 @@ cmd_pulse(int argc, char **argv)
                                    cli_json_num(d.theta_rad / DEG));
             json_object_object_add(o, "phi_deg",
                                    cli_json_num(d.phi_rad / DEG));
+        }
+        if (pp.noncollinear) {
+            json_object *an = json_object_new_object();
+            for (int k = 0; k < 3; k++)
+                json_object_object_add(an, pair_names[k],
+                                       cli_json_num(pp.angle_rad[k] / DEG));
+            json_object_object_add(o, "angle_deg", an);
+            json_object_object_add(o, "gvm_projection",
+                                   json_object_new_string(
+                                       "pump pairs along the pump, "
+                                       "signal-idler along the signal"));
         }
         json_object_object_add(o, "n", triple(&pp, offsetof(dk_wave_props,
                                                              n)));
@@ -171,7 +194,7 @@ cmd_pulse(int argc, char **argv)
             json_object_object_add(o, "aperture_length_mm", la);
         } else
             json_object_put(la);
-        cli_warnings_to_json(o);
+        cli_notes_to_json(o);
         cli_out_json(&out, o);
     } else {
         fprintf(out.f, "%s (data set %s), %s design at %.4g C", c->id,
@@ -179,6 +202,10 @@ cmd_pulse(int argc, char **argv)
         if (!qpm)
             fprintf(out.f, ", modes %s, theta %.3f deg, phi %.2f deg", d.pol,
                     d.theta_rad / DEG, d.phi_rad / DEG);
+        if (pp.noncollinear)
+            fprintf(out.f, ",\n  noncollinear: signal at %+.3f deg, idler at "
+                           "%.3f deg from the pump (internal)",
+                    d.angle.alpha_rad / DEG, pp.angle_rad[1] / DEG);
         fprintf(out.f, "\n\n  %-7s %10s %10s %12s %13s %13s %10s\n", "wave",
                 "um", "n", "group index", "GVD fs2/mm", "TOD fs3/mm",
                 "walk-off");
@@ -224,9 +251,15 @@ cmd_pulse(int argc, char **argv)
         fprintf(out.f, "\n  GVM = 1/v_g(first) - 1/v_g(second); split length "
                        "= duration/|GVM|; aperture length = sqrt(pi) w0 / "
                        "walk-off\n");
+        if (pp.noncollinear)
+            fprintf(out.f, "  noncollinear: pairs with the pump projected on "
+                           "the pump direction, signal-idler on the signal "
+                           "direction\n");
     }
     rc = cli_out_commit(&out);
+#undef d
 done:
+    free(dp);
     dk_db_free(db);
     return rc;
 }

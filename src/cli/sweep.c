@@ -1,8 +1,9 @@
 /*
  * sweep.c - `deltak sweep`: tuning curves (one variable swept, another
- * solved, optionally a family over a third), analyses against a variable
- * (GVM, d_eff, sinc², thermal acceptance) and 2-D phase-matching maps;
- * as CSV and/or a figure.
+ * solved, optionally a family over a third), analyses of the
+ * phase-matched design against a variable (GVM, d_eff, sinc², acceptance)
+ * and 2-D phase-matching maps; as CSV, JSON and/or a figure. Parse, call
+ * the sweep engine (deltak/sweep.h), print or draw.
  */
 #include <getopt.h>
 #include <math.h>
@@ -13,7 +14,6 @@
 #include "commands.h"
 #include "design_args.h"
 #include "deltak/plot.h"
-#include "deltak/pulse.h"
 #include "deltak/sweep.h"
 #include "deltak/units.h"
 
@@ -24,150 +24,134 @@ static const char *const sweep_usage[] = {
     "--fundamental <wl>]",
     "             [--temp <T>] [--period <P>] [--type I|II] [--pol <sip>] "
     "[--theta <deg>] [--length <L>]",
-    "             [--dispersion <set>] [--csv] [--plot <file.pdf|.svg|.png>] "
-    "[--size single|double|slide|WxH]",
+    "             [--noncollinear <deg>] [--plane XY|YZ|XZ] [--scheme "
+    "qpm|birefringent]",
+    "             [--dispersion <set>] [--csv | --json] [--plot "
+    "<file.pdf|.svg|.png>] [--size single|double|slide|WxH]",
     "",
     "  variables  period (um), temp (C), pump, signal, idler, fundamental "
-    "(with unit), theta, phi (deg)",
-    "  targets    idler, signal, wavelengths (both), period, temp, theta; "
-    "analyses: gvm, deff, sinc2, accept-temp",
+    "(with unit), theta, phi, alpha (deg), length (mm)",
+    "  targets    idler, signal, wavelengths (both), period, temp, theta, "
+    "phi",
+    "  analyses   gvm, deff, sinc2, accept-temp, accept-signal, "
+    "accept-theta (of the phase-matched design at each point)",
     "  --map      sinc^2(dk L/2) over --vary (x) and this variable (y); "
     "needs --length",
+    "  n          points along the range (default 201; curves up to 100000, "
+    "maps up to 2048x2048 cells)",
     "examples:",
     "  deltak sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um "
     "--solve idler --family temp=30,100,170 --plot tuning.pdf",
     "  deltak sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary "
     "pump=1.05um:1.08um --map temp=20:200 --length 20mm --plot map.png",
+    "  deltak sweep --crystal BBO --pump 400nm --vary theta=29:33 --solve "
+    "signal --family alpha=0,2,3.8 --plot nopa.pdf",
     NULL};
 
-#define DEG (M_PI / 180)
-#define MAX_ROOTS 16
-#define MAX_FAMILY 8
-#define MAX_N 2001
+#define DEFAULT_POINTS 201
 
-/* Parse "name=lo:hi[:n]" with values in the variable's unit. */
-static int
-parse_range_var(const char *arg, dk_var *v, double r[2], int *n,
-                dk_error *err)
+/* One value of variable @v from text, in its sweep unit. */
+static dk_status
+parse_value(dk_var v, const char *text, double *out, dk_error *err)
 {
-    char name[32], a[64], b[64];
-    const char *eq = strchr(arg, '=');
-    if (!eq || (size_t)(eq - arg) >= sizeof name)
-        return dk_error_set(err, DK_EINVAL, "'%s' must look like "
-                                            "period=28um:32um", arg);
-    memcpy(name, arg, eq - arg);
-    name[eq - arg] = '\0';
-    if (dk_var_parse(name, v, err))
-        return DK_EINVAL;
-    const char *p = eq + 1, *c1 = strchr(p, ':');
-    if (!c1 || (size_t)(c1 - p) >= sizeof a)
-        return dk_error_set(err, DK_EINVAL, "'%s': expected lo:hi after '='",
-                            arg);
-    memcpy(a, p, c1 - p);
-    a[c1 - p] = '\0';
-    const char *c2 = strchr(c1 + 1, ':');
-    size_t lb = c2 ? (size_t)(c2 - c1 - 1) : strlen(c1 + 1);
-    if (lb >= sizeof b)
-        return dk_error_set(err, DK_EINVAL, "'%s' is too long", arg);
-    memcpy(b, c1 + 1, lb);
-    b[lb] = '\0';
-    *n = 201;
-    if (c2) {
+    dk_status s;
+    switch (v) {
+    case DK_VAR_PERIOD:
+    case DK_VAR_LENGTH:
+        s = dk_parse_length(text, out, err);
+        if (!s && v == DK_VAR_PERIOD)
+            *out *= 1e3;
+        return s;
+    case DK_VAR_TEMP:
+        return dk_parse_temperature(text, out, err);
+    case DK_VAR_THETA:
+    case DK_VAR_PHI:
+    case DK_VAR_ALPHA: {
         char *end;
-        *n = (int)strtol(c2 + 1, &end, 10);
-        if (*end || *n < 2 || *n > MAX_N)
-            return dk_error_set(err, DK_EINVAL, "'%s': the number of points "
-                                                "must be 2 to %d",
-                                arg, MAX_N);
+        *out = strtod(text, &end);
+        if (!*text || *end || !isfinite(*out) || strpbrk(text, "xXnN"))
+            return dk_error_set(err, DK_EINVAL,
+                                "'%s' must be an angle in degrees", text);
+        return DK_OK;
     }
-    const char *vals[2] = {a, b};
-    for (int i = 0; i < 2; i++) {
-        dk_status s;
-        switch (*v) {
-        case DK_VAR_PERIOD:
-            s = dk_parse_length(vals[i], &r[i], err);
-            r[i] *= 1e3;
-            break;
-        case DK_VAR_TEMP:
-            s = dk_parse_temperature(vals[i], &r[i], err);
-            break;
-        case DK_VAR_THETA:
-        case DK_VAR_PHI: {
-            char *end;
-            r[i] = strtod(vals[i], &end);
-            s = *end || end == vals[i]
-                    ? dk_error_set(err, DK_EINVAL, "'%s' must be degrees",
-                                   vals[i])
-                    : DK_OK;
-            break;
-        }
-        default:
-            s = dk_parse_wavelength(vals[i], &r[i], err);
-        }
-        if (s)
-            return s;
+    default:
+        return dk_parse_wavelength(text, out, err);
     }
-    if (!(r[0] != r[1]))
-        return dk_error_set(err, DK_EINVAL, "'%s': lo and hi must differ",
-                            arg);
-    return DK_OK;
 }
 
-/* Parse "name=v1,v2,..." (family). */
+/* Parse "name=lo:hi[:n]". */
 static int
-parse_family(const char *arg, dk_var *v, double *vals, int *n, dk_error *err)
+parse_range_var(const char *opt, const char *arg, dk_var *v, double r[2],
+                int *n, int max_n)
 {
-    char name[32], buf[256];
-    const char *eq = strchr(arg, '=');
-    if (!eq || (size_t)(eq - arg) >= sizeof name ||
-        strlen(eq + 1) >= sizeof buf)
-        return dk_error_set(err, DK_EINVAL, "'%s' must look like "
-                                            "temp=30,100,170", arg);
-    memcpy(name, arg, eq - arg);
-    name[eq - arg] = '\0';
-    if (dk_var_parse(name, v, err))
-        return DK_EINVAL;
-    strcpy(buf, eq + 1);
-    *n = 0;
-    for (char *t = strtok(buf, ","); t; t = strtok(NULL, ",")) {
-        if (*n >= MAX_FAMILY)
-            return dk_error_set(err, DK_EINVAL, "at most %d family members",
-                                MAX_FAMILY);
-        char full[128];
-        snprintf(full, sizeof full, "%s=%s:%s:2", name, t, t);
-        double r[2];
-        int dummy;
-        /* Reuse the range parser for the units; equal ends are refused
-         * there, so parse the single value by hand instead. */
-        (void)full;
-        (void)dummy;
-        dk_status s;
-        switch (*v) {
-        case DK_VAR_PERIOD:
-            s = dk_parse_length(t, &r[0], err);
-            r[0] *= 1e3;
-            break;
-        case DK_VAR_TEMP:
-            s = dk_parse_temperature(t, &r[0], err);
-            break;
-        case DK_VAR_THETA:
-        case DK_VAR_PHI: {
-            char *end;
-            r[0] = strtod(t, &end);
-            s = *end || end == t ? dk_error_set(err, DK_EINVAL, "'%s' must "
-                                                                "be degrees",
-                                                t)
-                                 : DK_OK;
-            break;
-        }
-        default:
-            s = dk_parse_wavelength(t, &r[0], err);
-        }
-        if (s)
-            return s;
-        vals[(*n)++] = r[0];
+    dk_error err = {0};
+    char buf[160];
+    if (strlen(arg) >= sizeof buf)
+        return cli_usage_error(sweep_usage, "%s '%.40s...' is too long", opt,
+                               arg);
+    strcpy(buf, arg);
+    char *eq = strchr(buf, '='), *c1 = eq ? strchr(eq + 1, ':') : NULL;
+    if (!eq || !c1)
+        return cli_usage_error(sweep_usage, "%s '%s' must look like "
+                                            "period=28um:32um or "
+                                            "temp=20:200:181",
+                               opt, arg);
+    *eq = *c1 = '\0';
+    char *c2 = strchr(c1 + 1, ':');
+    if (c2)
+        *c2 = '\0';
+    if (dk_var_parse(buf, v, &err))
+        return cli_usage_error(sweep_usage, "%s", err.msg);
+    if (*v == DK_VAR_WAVELENGTHS)
+        return cli_usage_error(sweep_usage, "%s: 'wavelengths' is a target, "
+                                            "not a variable",
+                               opt);
+    *n = DEFAULT_POINTS;
+    if (c2 && cli_int(opt, c2 + 1, 2, max_n, n, sweep_usage))
+        return CLI_USAGE;
+    if (parse_value(*v, eq + 1, &r[0], &err) ||
+        parse_value(*v, c1 + 1, &r[1], &err))
+        return cli_usage_error(sweep_usage, "%s: %s", opt, err.msg);
+    if (!(r[0] != r[1]))
+        return cli_usage_error(sweep_usage, "%s '%s': the two ends must "
+                                            "differ",
+                               opt, arg);
+    return 0;
+}
+
+/* Parse "name=v1,v2,...". */
+static int
+parse_family(const char *arg, dk_sweep_spec *sp)
+{
+    dk_error err = {0};
+    char buf[256];
+    if (strlen(arg) >= sizeof buf)
+        return cli_usage_error(sweep_usage, "--family is too long");
+    strcpy(buf, arg);
+    char *eq = strchr(buf, '=');
+    if (!eq)
+        return cli_usage_error(sweep_usage, "--family '%s' must look like "
+                                            "temp=30,100,170",
+                               arg);
+    *eq = '\0';
+    if (dk_var_parse(buf, &sp->family, &err))
+        return cli_usage_error(sweep_usage, "%s", err.msg);
+    sp->nfamily = 0;
+    char *save = NULL;
+    for (char *t = strtok_r(eq + 1, ",", &save); t;
+         t = strtok_r(NULL, ",", &save)) {
+        if (sp->nfamily >= DK_SWEEP_MAX_FAMILY)
+            return cli_usage_error(sweep_usage, "--family has at most %d "
+                                                "members",
+                                   DK_SWEEP_MAX_FAMILY);
+        if (parse_value(sp->family, t, &sp->family_values[sp->nfamily++],
+                        &err))
+            return cli_usage_error(sweep_usage, "--family: %s", err.msg);
     }
-    return *n ? DK_OK : dk_error_set(err, DK_EINVAL, "empty family '%s'", arg);
+    if (!sp->nfamily)
+        return cli_usage_error(sweep_usage, "--family '%s' has no values",
+                               arg);
+    return 0;
 }
 
 static const char *
@@ -182,82 +166,231 @@ axis_markup(dk_var v)
     case DK_VAR_FUNDAMENTAL: return "Fundamental wavelength (µm)";
     case DK_VAR_THETA: return "Phase-matching angle θ (°)";
     case DK_VAR_PHI: return "Azimuth φ (°)";
+    case DK_VAR_ALPHA: return "Noncollinear angle α (°)";
+    case DK_VAR_LENGTH: return "Crystal length (mm)";
     case DK_VAR_WAVELENGTHS: return "Signal and idler wavelength (µm)";
     }
     return "";
 }
 
-static int
-is_wavelength(dk_var v)
+static const char *
+quantity_markup(dk_sweep_quantity q, dk_var target)
 {
-    return v == DK_VAR_PUMP || v == DK_VAR_SIGNAL || v == DK_VAR_IDLER ||
-           v == DK_VAR_FUNDAMENTAL || v == DK_VAR_WAVELENGTHS;
+    switch (q) {
+    case DK_SWEEP_GVM: return "Group-velocity mismatch (fs/mm)";
+    case DK_SWEEP_DEFF: return "d<sub>eff</sub> (pm/V)";
+    case DK_SWEEP_SINC2: return "sinc<sup>2</sup>(Δk L/2)";
+    case DK_SWEEP_ACCEPT_TEMP: return "Temperature acceptance FWHM (°C)";
+    case DK_SWEEP_ACCEPT_SIGNAL: return "Spectral acceptance FWHM (nm)";
+    case DK_SWEEP_ACCEPT_THETA: return "Angular acceptance FWHM (mrad)";
+    case DK_SWEEP_SOLVE: break;
+    }
+    return axis_markup(target);
+}
+
+static const char *
+branch_name(const dk_series *s, char *buf, size_t n)
+{
+    if (s->wave >= 0)
+        snprintf(buf, n, "%s%s", s->wave ? "idler" : "signal",
+                 s->branch ? (s->branch == 1 ? "-2" : "-n") : "");
+    else
+        snprintf(buf, n, "%d", s->branch + 1);
+    return buf;
+}
+
+/* CSV of curves: one row per point with a value, grouped by series. */
+static void
+curves_csv(FILE *f, const dk_design *d, const dk_sweep_spec *sp,
+           const dk_sweep_result *res)
+{
+    char flags[256], br[16];
+    int gvm = sp->quantity == DK_SWEEP_GVM;
+    fprintf(f, "%s_%s,", dk_var_name(sp->x), dk_var_unit(sp->x));
+    if (sp->nfamily)
+        fprintf(f, "%s_%s,", dk_var_name(sp->family),
+                dk_var_unit(sp->family));
+    if (gvm) {
+        fprintf(f, "gvm_signal_pump_fs_per_mm,gvm_idler_pump_fs_per_mm,"
+                   "gvm_signal_idler_fs_per_mm,flags\n");
+        /* Three series per family member: one row per point. */
+        for (int s = 0; s + 2 < res->nseries; s += 3)
+            for (size_t i = 0; i < res->series[s].n; i++) {
+                const dk_series *a = &res->series[s];
+                if (!isfinite(a->y[i]))
+                    continue;
+                fprintf(f, "%.8g,", a->x[i]);
+                if (sp->nfamily)
+                    fprintf(f, "%.8g,", sp->family_values[a->family]);
+                fprintf(f, "%.6g,%.6g,%.6g,%s\n", a->y[i],
+                        res->series[s + 1].y[i], res->series[s + 2].y[i],
+                        cli_csv_flags(a->flags[i], d->shg, flags,
+                                      sizeof flags));
+            }
+        return;
+    }
+    fprintf(f, "%s_%s,branch,flags\n",
+            dk_sweep_quantity_name(sp->quantity, sp->target),
+            dk_sweep_quantity_unit(sp->quantity, sp->target));
+    for (int s = 0; s < res->nseries; s++) {
+        const dk_series *a = &res->series[s];
+        for (size_t i = 0; i < a->n; i++) {
+            if (!isfinite(a->y[i]))
+                continue;
+            fprintf(f, "%.8g,", a->x[i]);
+            if (sp->nfamily)
+                fprintf(f, "%.8g,", sp->family_values[a->family]);
+            fprintf(f, "%.10g,%s,%s\n", a->y[i],
+                    branch_name(a, br, sizeof br),
+                    cli_csv_flags(a->flags[i], d->shg, flags, sizeof flags));
+        }
+    }
+}
+
+static json_object *
+curves_json(const dk_design *d, const dk_sweep_spec *sp,
+            const dk_sweep_result *res)
+{
+    json_object *o = json_object_new_object();
+    char br[16], flags[160];
+    json_object_object_add(o, "crystal", json_object_new_string(d->crystal->id));
+    json_object_object_add(o, "dispersion",
+                           json_object_new_string(d->set->name));
+    json_object_object_add(o, "x", json_object_new_string(dk_var_name(sp->x)));
+    json_object_object_add(o, "x_unit",
+                           json_object_new_string(dk_var_unit(sp->x)));
+    json_object_object_add(o, "y",
+                           json_object_new_string(dk_sweep_quantity_name(
+                               sp->quantity, sp->target)));
+    json_object_object_add(o, "y_unit",
+                           json_object_new_string(dk_sweep_quantity_unit(
+                               sp->quantity, sp->target)));
+    json_object *arr = json_object_new_array();
+    for (int s = 0; s < res->nseries; s++) {
+        const dk_series *a = &res->series[s];
+        json_object *so = json_object_new_object();
+        json_object_object_add(so, "label", json_object_new_string(a->label));
+        if (sp->nfamily)
+            json_object_object_add(so, "family",
+                                   cli_json_num(
+                                       sp->family_values[a->family]));
+        json_object_object_add(so, "branch",
+                               json_object_new_string(
+                                   branch_name(a, br, sizeof br)));
+        json_object *xs = json_object_new_array(), *ys = json_object_new_array(),
+                    *fl = json_object_new_array();
+        for (size_t i = 0; i < a->n; i++) {
+            json_object_array_add(xs, cli_json_num(a->x[i]));
+            json_object_array_add(ys, cli_json_num(a->y[i]));
+            json_object_array_add(
+                fl, json_object_new_string(
+                        dk_range_codes(a->flags[i], d->shg, flags,
+                                       sizeof flags)));
+        }
+        json_object_object_add(so, "x", xs);
+        json_object_object_add(so, "y", ys);
+        json_object_object_add(so, "flags", fl);
+        json_object_array_add(arr, so);
+    }
+    json_object_object_add(o, "series", arr);
+    return o;
 }
 
 static void
-family_label(dk_var v, double val, char *buf, size_t n)
+map_csv(FILE *f, const dk_design *d, const dk_map_spec *mp,
+        const dk_map_result *m)
 {
-    switch (v) {
-    case DK_VAR_PERIOD: snprintf(buf, n, "Λ = %.4g µm", val); break;
-    case DK_VAR_TEMP: snprintf(buf, n, "%.4g °C", val); break;
-    case DK_VAR_THETA: snprintf(buf, n, "θ = %.4g°", val); break;
-    case DK_VAR_PHI: snprintf(buf, n, "φ = %.4g°", val); break;
-    default: snprintf(buf, n, "%s %.5g µm", dk_var_name(v), val);
-    }
+    char flags[256];
+    fprintf(f, "%s_%s,%s_%s,sinc2,flags\n", dk_var_name(mp->x),
+            dk_var_unit(mp->x), dk_var_name(mp->y), dk_var_unit(mp->y));
+    for (int j = 0; j < m->ny; j++)
+        for (int i = 0; i < m->nx; i++) {
+            size_t c = (size_t)j * m->nx + i;
+            /* An empty cell where the model is undefined. */
+            if (m->cell[c] == DK_CELL_UNDEFINED)
+                fprintf(f, "%.8g,%.8g,,undefined\n", m->x[i], m->y[j]);
+            else
+                fprintf(f, "%.8g,%.8g,%.6g,%s\n", m->x[i], m->y[j], m->z[c],
+                        cli_csv_flags(m->cell[c] == DK_CELL_EXTRAPOLATED
+                                          ? m->flags
+                                          : 0,
+                                      d->shg, flags, sizeof flags));
+        }
 }
 
-enum analysis { AN_NONE, AN_GVM, AN_DEFF, AN_SINC2, AN_ACCEPT_TEMP };
-
-/* One computed point of a 1-D sweep: up to MAX_ROOTS values. */
-typedef struct point {
-    int n;
-    double y[MAX_ROOTS];
-} point;
-
-/* Evaluate one x of a 1-D sweep. Returns 0, or -1 to skip the point. */
-static int
-eval_point(dk_sweep *s, enum analysis an, dk_var target, int keep_period,
-           point *pt)
+static dk_status
+plot_curves(dk_plot *fig, const dk_sweep_spec *sp, const dk_sweep_result *res,
+            dk_error *err)
 {
-    dk_error err = {0};
-    pt->n = 0;
-    switch (an) {
-    case AN_NONE:
-        if (dk_sweep_solve(s, target, pt->y, MAX_ROOTS, &pt->n, &err))
-            return -1;
-        return 0;
-    case AN_SINC2:
-        pt->y[0] = dk_sweep_sinc2(s);
-        pt->n = isfinite(pt->y[0]);
-        return 0;
-    case AN_DEFF:
-        if (s->d.kind != DK_DESIGN_ANGLE)
-            return -1;
-        pt->y[0] = dk_design_deff(&s->d);
-        pt->n = isfinite(pt->y[0]);
-        return 0;
-    case AN_GVM: {
-        dk_pulse_props pp;
-        if (dk_sweep_rephase(s, keep_period, NULL) ||
-            dk_pulse_props_of(&s->d, &pp, NULL))
-            return -1;
-        for (int k = 0; k < 3; k++)
-            pt->y[k] = pp.gvm_fs_per_mm[k];
-        pt->n = 3;
-        return 0;
+    dk_status ps = dk_plot_set_ylabel(fig,
+                                      quantity_markup(sp->quantity,
+                                                      sp->target),
+                                      err);
+    for (int s = 0; !ps && s < res->nseries; s++) {
+        const dk_series *a = &res->series[s];
+        int any = 0;
+        for (size_t i = 0; i < a->n && !any; i++)
+            any = isfinite(a->y[i]);
+        if (any)
+            ps = dk_plot_add_line(fig, a->x, a->y, a->n,
+                                  a->label[0] ? a->label : NULL, err);
     }
-    case AN_ACCEPT_TEMP: {
-        dk_acceptance a;
-        if (dk_sweep_rephase(s, keep_period, NULL) ||
-            dk_design_tolerance(&s->d, DK_TOL_TEMPERATURE, &a, NULL) ||
-            !a.bounded)
-            return -1;
-        pt->y[0] = a.fwhm;
-        pt->n = 1;
-        return 0;
+    if (!ps && sp->quantity == DK_SWEEP_SINC2)
+        ps = dk_plot_set_yrange(fig, 0, 1.05, err);
+    return ps;
+}
+
+static dk_status
+plot_map(dk_plot *fig, const dk_map_spec *mp, const dk_map_result *m,
+         dk_error *err)
+{
+    dk_status ps = dk_plot_set_ylabel(fig, axis_markup(mp->y), err);
+    if (!ps)
+        ps = dk_plot_set_map(fig, m->z, m->nx, m->ny, mp->x_lo, mp->x_hi,
+                             mp->y_lo, mp->y_hi, "sinc<sup>2</sup>(Δk L/2)",
+                             err);
+    if (!ps)
+        ps = dk_plot_add_contour(fig, 0.5, "half maximum", err);
+    if (!ps)
+        ps = dk_plot_set_zrange(fig, 0, 1, err);
+    if (!ps && m->ridge.n > 0) {
+        int any = 0;
+        for (size_t i = 0; i < m->ridge.n && !any; i++)
+            any = isfinite(m->ridge.y[i]);
+        if (any)
+            ps = dk_plot_add_line(fig, m->ridge.x, m->ridge.y, m->ridge.n,
+                                  m->ridge.label, err);
     }
+    return ps;
+}
+
+/* The design a sweep starts from: solved when its waves are complete. */
+static int
+base_design(const cli_design_args *da, const cli_common *cm,
+            const dk_crystal *c, int angular, dk_design *d)
+{
+    dk_design_request rq;
+    int rc = cli_design_request(da, CLI_D_ALL, 0, c, cm->crystal,
+                                cm->set_name, &rq, sweep_usage);
+    if (rc)
+        return rc;
+    if (angular && rq.scheme == DK_SCHEME_AUTO)
+        rq.scheme = DK_SCHEME_ANGLE;
+    int complete = rq.shg || dk_waves_given(&rq.waves) == 3;
+    /* A QPM sweep needs no solution when the grating is given or swept;
+     * a birefringent one needs its modes: from --pol, or solved. */
+    if ((rc = cli_design_make(&rq, d, 0)))
+        return rc;
+    if (complete && !(d->scheme == DK_SCHEME_QPM && rq.period_um > 0)) {
+        dk_error err = {0};
+        if (dk_design_solve(d, &err))
+            return cli_error("%s", err.msg);
+        cli_take_notes(&d->notes);
+    } else if (d->scheme == DK_SCHEME_ANGLE && !d->pol[0]) {
+        return cli_error("give --pol (modes of signal, idler, pump) or two "
+                         "waves, so that the modes can be chosen");
     }
-    return -1;
+    return 0;
 }
 
 int
@@ -266,7 +399,6 @@ cmd_sweep(int argc, char **argv)
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"length", required_argument, NULL, 'L'},
         {"vary", required_argument, NULL, 'V'},
         {"solve", required_argument, NULL, 'S'},
         {"family", required_argument, NULL, 'F'},
@@ -276,16 +408,19 @@ cmd_sweep(int argc, char **argv)
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *len = NULL, *vary = NULL, *solve = NULL, *family = NULL,
-               *map = NULL, *plot = NULL, *size = "single";
+    const char *vary = NULL, *solve = NULL, *family = NULL, *map = NULL,
+               *plot = NULL, *size = "single";
     int ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
             continue;
+        if ((rc = cli_design_option(ch, opts, &da, sweep_usage)) == 1)
+            continue;
+        if (rc)
+            return rc;
         switch (ch) {
-        case 'L': len = optarg; break;
         case 'V': vary = optarg; break;
         case 'S': solve = optarg; break;
         case 'F': family = optarg; break;
@@ -298,9 +433,6 @@ cmd_sweep(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 0, sweep_usage)))
         return rc;
-    if (cm.json)
-        return cli_usage_error(sweep_usage, "sweep writes --csv and/or "
-                                            "--plot, not --json");
     if (!vary)
         return cli_usage_error(sweep_usage, "--vary is required");
     if (!!solve == !!map)
@@ -309,294 +441,100 @@ cmd_sweep(int argc, char **argv)
         return cli_usage_error(sweep_usage, "--family does not combine with "
                                             "--map");
     dk_error err = {0};
-    dk_var xv, yv = DK_VAR_TEMP, fv = DK_VAR_TEMP, target = DK_VAR_IDLER;
-    double xr[2], yr[2], fam[MAX_FAMILY], wmm = 0, hmm = 0;
-    int nx, ny = 0, nf = 0;
-    enum analysis an = AN_NONE;
-    if (parse_range_var(vary, &xv, xr, &nx, &err) ||
-        (map && parse_range_var(map, &yv, yr, &ny, &err)) ||
-        (family && parse_family(family, &fv, fam, &nf, &err)) ||
-        dk_plot_size_parse(size, &wmm, &hmm, &err))
-        return cli_usage_error(sweep_usage, "%s", err.msg);
-    if (map && ny > 401)
-        ny = 401;
-    if (solve) {
-        if (!strcmp(solve, "gvm"))
-            an = AN_GVM;
-        else if (!strcmp(solve, "deff"))
-            an = AN_DEFF;
-        else if (!strcmp(solve, "sinc2"))
-            an = AN_SINC2;
-        else if (!strcmp(solve, "accept-temp"))
-            an = AN_ACCEPT_TEMP;
-        else if (dk_var_parse(solve, &target, &err))
-            return cli_usage_error(sweep_usage, "%s", err.msg);
+    dk_sweep_spec sp = {0};
+    dk_map_spec mp = {0};
+    double wmm = 0, hmm = 0;
+    double xr[2];
+    int nx;
+    if (parse_range_var("--vary", vary, &sp.x, xr, &nx,
+                        map ? DK_MAP_MAX_SIDE : DK_SWEEP_MAX_POINTS))
+        return CLI_USAGE;
+    sp.x_lo = mp.x_lo = xr[0], sp.x_hi = mp.x_hi = xr[1];
+    sp.nx = mp.nx = nx;
+    mp.x = sp.x;
+    if (map) {
+        double yr[2];
+        if (parse_range_var("--map", map, &mp.y, yr, &mp.ny, DK_MAP_MAX_SIDE))
+            return CLI_USAGE;
+        mp.y_lo = yr[0], mp.y_hi = yr[1];
+        if ((long long)mp.nx * mp.ny > DK_MAP_MAX_CELLS)
+            return cli_usage_error(sweep_usage, "a map of %d x %d cells is "
+                                                "more than the %d allowed "
+                                                "(about 9 bytes a cell); use "
+                                                "fewer points",
+                                   mp.nx, mp.ny, DK_MAP_MAX_CELLS);
     }
-    dk_sweep sw = {0};
-    cli_design_spec sp;
-    if ((rc = cli_design_parse(&da, &sp, 0, sweep_usage)))
-        return rc;
-    sw.d.waves = sp.waves;
-    sw.d.shg = sp.shg;
-    sw.held = sp.held;
-    sw.d.temp_c = sp.temp_c;
-    sw.d.length_mm = 10;
-    if (len && dk_parse_length(len, &sw.d.length_mm, &err))
+    if (family && parse_family(family, &sp))
+        return CLI_USAGE;
+    if (dk_plot_size_parse(size, &wmm, &hmm, &err))
         return cli_usage_error(sweep_usage, "%s", err.msg);
-    if ((map || an == AN_SINC2) && !len)
+    if (solve && dk_sweep_quantity_parse(solve, &sp.quantity, &sp.target,
+                                         &err))
+        return cli_usage_error(sweep_usage, "%s", err.msg);
+    if ((map || sp.quantity == DK_SWEEP_SINC2) &&
+        !cli_design_given(&da, OPT_LENGTH) && sp.x != DK_VAR_LENGTH)
         return cli_usage_error(sweep_usage, "sinc^2 needs --length");
+    if (map && cm.json)
+        return cli_usage_error(sweep_usage, "a map is written as --csv or "
+                                            "--plot");
+    int angular = sp.x == DK_VAR_THETA || sp.x == DK_VAR_PHI ||
+                  sp.x == DK_VAR_ALPHA ||
+                  (family && (sp.family == DK_VAR_THETA ||
+                              sp.family == DK_VAR_PHI ||
+                              sp.family == DK_VAR_ALPHA)) ||
+                  (solve && sp.quantity == DK_SWEEP_SOLVE &&
+                   (sp.target == DK_VAR_THETA || sp.target == DK_VAR_PHI)) ||
+                  (map && (mp.y == DK_VAR_THETA || mp.y == DK_VAR_PHI ||
+                           mp.y == DK_VAR_ALPHA));
 
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
     rc = CLI_FAIL;
     dk_plot *fig = NULL;
-    double *xs = NULL, *ys = NULL, *zs = NULL;
-    point *pts = NULL;
+    dk_sweep_result res = {0};
+    dk_map_result mres = {0};
+    dk_design *d = malloc(sizeof *d);
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
-    if (!set)
+    if (!c || !d)
         goto done;
-    int angular = xv == DK_VAR_THETA || xv == DK_VAR_PHI ||
-                  target == DK_VAR_THETA || an == AN_DEFF ||
-                  (map && (yv == DK_VAR_THETA || yv == DK_VAR_PHI));
-    int qpm = c->poling != DK_POLING_NONE && !sp.type &&
-              !isfinite(sp.theta_rad) && !angular;
-    if (!sp.have_temp && !dk_set_has_temperature(set))
-        sw.d.temp_c = set->reference_temperature_c;
-    const double *tr = set->temp_form == DK_TEMP_NONE
-                           ? set->thermo.temperature_range_c
-                           : set->temperature_range_c;
-    sw.t_lo_c = tr[0] - 50;
-    sw.t_hi_c = tr[1] + 50;
-    int complete = sw.d.shg || (sw.d.waves.signal_um > 0 &&
-                                sw.d.waves.idler_um > 0 &&
-                                sw.d.waves.pump_um > 0);
-    if (qpm) {
-        sw.d.kind = DK_DESIGN_QPM;
-        if (dk_qpm_init(&sw.d.qpm, c, set, sp.pol, sp.order, 0.5, 25,
-                        &err)) {
-            cli_error("%s", err.msg);
-            goto done;
-        }
-        sw.d.period_um = sp.period_um;
-        if (!(sp.period_um > 0) && complete &&
-            dk_sweep_rephase(&sw, 0, &err)) {
-            cli_error("%s", err.msg);
-            goto done;
-        }
-    } else {
-        if (complete) {
-            if (dk_design_setup_angle(&sw.d, c, set, sp.pol, sp.type,
-                                      sp.theta_rad, &err)) {
-                cli_error("%s", err.msg);
-                goto done;
-            }
-        } else {
-            if (!sp.pol) {
-                cli_error("give --pol (modes of signal, idler, pump) or both "
-                          "of two waves, so the modes can be chosen");
-                goto done;
-            }
-            sw.d.kind = DK_DESIGN_ANGLE;
-            sw.d.angle = (dk_angle_problem){c, set, sw.d.waves, sw.d.shg,
-                                            sw.d.temp_c, 0, 0};
-            snprintf(sw.d.pol, sizeof sw.d.pol, "%s", sp.pol);
-            sw.d.theta_rad = isfinite(sp.theta_rad) ? sp.theta_rad : 0;
-        }
+    if ((rc = base_design(&da, &cm, c, angular, d)))
+        goto done;
+    rc = CLI_FAIL;
+    dk_status st = map ? dk_sweep_map(d, &mp, &mres, &err)
+                       : dk_sweep_curves(d, &sp, &res, &err);
+    if (st) {
+        cli_error("%s", err.msg);
+        if (st == DK_EINVAL)
+            rc = CLI_USAGE;
+        goto done;
     }
-    int keep_period = sp.period_um > 0 || xv == DK_VAR_PERIOD ||
-                      (family && fv == DK_VAR_PERIOD);
-
-    xs = calloc(nx, sizeof *xs);
-    if (!xs)
-        goto oom;
-    for (int i = 0; i < nx; i++)
-        xs[i] = xr[0] + (xr[1] - xr[0]) * i / (nx - 1);
-
+    cli_take_notes(map ? &mres.notes : &res.notes);
     cli_out out;
     if (cli_out_open(&out))
         goto done;
-    const char *xu = dk_var_unit(xv);
-    if (map) {
-        zs = calloc((size_t)nx * ny, sizeof *zs);
-        ys = calloc(ny, sizeof *ys);
-        if (!zs || !ys) {
-            cli_out_discard(&out);
-            goto oom;
-        }
-        for (int j = 0; j < ny; j++)
-            ys[j] = yr[0] + (yr[1] - yr[0]) * j / (ny - 1);
-        if (cm.csv || !plot)
-            fprintf(out.f, "%s_%s,%s_%s,sinc2\n", dk_var_name(xv), xu,
-                    dk_var_name(yv), dk_var_unit(yv));
-        for (int j = 0; j < ny; j++)
-            for (int i = 0; i < nx; i++) {
-                dk_sweep p = sw;
-                double z = NAN;
-                if (!dk_sweep_set(&p, xv, xs[i], NULL) &&
-                    !dk_sweep_set(&p, yv, ys[j], NULL))
-                    z = dk_sweep_sinc2(&p);
-                zs[(size_t)j * nx + i] = z;
-                if (cm.csv || !plot)
-                {
-                    /* An empty cell where the model is undefined. */
-                    if (isfinite(z))
-                        fprintf(out.f, "%.8g,%.8g,%.6g\n", xs[i], ys[j], z);
-                    else
-                        fprintf(out.f, "%.8g,%.8g,\n", xs[i], ys[j]);
-                }
-            }
-    } else {
-        int nfam = family ? nf : 1;
-        pts = calloc((size_t)nfam * nx, sizeof *pts);
-        if (!pts) {
-            cli_out_discard(&out);
-            goto oom;
-        }
-        const char *yname = an == AN_GVM ? "gvm" : an == AN_DEFF ? "deff"
-                            : an == AN_SINC2 ? "sinc2"
-                            : an == AN_ACCEPT_TEMP ? "temperature_fwhm"
-                                                   : dk_var_name(target);
-        const char *yunit = an == AN_GVM ? "fs_per_mm"
-                            : an == AN_DEFF ? "pm_per_V"
-                            : an == AN_SINC2 ? "1"
-                            : an == AN_ACCEPT_TEMP ? "C"
-                                                   : dk_var_unit(target);
-        if (cm.csv || !plot) {
-            fprintf(out.f, "%s_%s,", dk_var_name(xv), xu);
-            if (family)
-                fprintf(out.f, "%s_%s,", dk_var_name(fv), dk_var_unit(fv));
-            if (an == AN_GVM)
-                fprintf(out.f, "gvm_signal_pump_fs_per_mm,"
-                               "gvm_idler_pump_fs_per_mm,"
-                               "gvm_signal_idler_fs_per_mm\n");
-            else
-                fprintf(out.f, "%s_%s\n", yname, yunit);
-        }
-        for (int f = 0; f < nfam; f++)
-            for (int i = 0; i < nx; i++) {
-                dk_sweep p = sw;
-                point *pt = &pts[(size_t)f * nx + i];
-                pt->n = 0;
-                if ((family && dk_sweep_set(&p, fv, fam[f], NULL)) ||
-                    dk_sweep_set(&p, xv, xs[i], NULL) ||
-                    eval_point(&p, an, target, keep_period, pt))
-                    pt->n = 0;
-                if (!(cm.csv || !plot))
-                    continue;
-                if (an == AN_GVM && pt->n == 3) {
-                    fprintf(out.f, "%.8g,", xs[i]);
-                    if (family)
-                        fprintf(out.f, "%.8g,", fam[f]);
-                    fprintf(out.f, "%.6g,%.6g,%.6g\n", pt->y[0], pt->y[1],
-                            pt->y[2]);
-                    continue;
-                }
-                for (int k = 0; k < pt->n; k++) {
-                    fprintf(out.f, "%.8g,", xs[i]);
-                    if (family)
-                        fprintf(out.f, "%.8g,", fam[f]);
-                    fprintf(out.f, "%.10g\n", pt->y[k]);
-                }
-            }
+    if (cm.json) {
+        json_object *o = curves_json(d, &sp, &res);
+        cli_notes_to_json(o);
+        cli_out_json(&out, o);
+    } else if (cm.csv || !plot) {
+        cli_set_output_mode(CLI_CSV);
+        if (map)
+            map_csv(out.f, d, &mp, &mres);
+        else
+            curves_csv(out.f, d, &sp, &res);
     }
     if (plot) {
-        if (dk_plot_new(wmm, hmm, &fig, &err) ||
-            dk_plot_set_xlabel(fig, axis_markup(xv), &err)) {
-            cli_error("%s", err.msg);
-            cli_out_discard(&out);
-            goto done;
-        }
-        if (is_wavelength(xv))
-            dk_plot_set_top_axis(fig, dk_plot_um_to_per_cm,
-                                 dk_plot_per_cm_to_um, NULL,
-                                 "Wavenumber (cm<sup>−1</sup>)", NULL);
-        dk_status ps = DK_OK;
-        if (map) {
-            ps = dk_plot_set_ylabel(fig, axis_markup(yv), &err);
-            if (!ps)
-                ps = dk_plot_set_map(fig, zs, nx, ny, xr[0], xr[1], yr[0],
-                                     yr[1], "sinc<sup>2</sup>(Δk L/2)", &err);
-            if (!ps)
-                ps = dk_plot_add_contour(fig, 0.5, "half maximum", &err);
-            if (!ps)
-                ps = dk_plot_set_zrange(fig, 0, 1, &err);
-            /* The Δk = 0 ridge, where the y variable can be solved for. */
-            if (!ps && yv != DK_VAR_PHI) {
-                double *rx = calloc((size_t)nx * (MAX_ROOTS + 1), sizeof *rx);
-                double *ry = calloc((size_t)nx * (MAX_ROOTS + 1), sizeof *ry);
-                size_t m = 0;
-                for (int i = 0; rx && ry && i < nx; i++) {
-                    dk_sweep p = sw;
-                    double v[MAX_ROOTS];
-                    int nv = 0;
-                    if (dk_sweep_set(&p, xv, xs[i], NULL) ||
-                        dk_sweep_solve(&p, yv, v, MAX_ROOTS, &nv, NULL))
-                        nv = 0;
-                    for (int k = 0; k < nv; k++)
-                        if ((v[k] - yr[0]) * (v[k] - yr[1]) <= 0)
-                            rx[m] = xs[i], ry[m++] = v[k];
-                }
-                if (m > 0)
-                    ps = dk_plot_add_line(fig, rx, ry, m, "Δk = 0", &err);
-                free(rx);
-                free(ry);
-            }
-        } else {
-            const char *ylab =
-                an == AN_GVM ? "Group-velocity mismatch (fs/mm)"
-                : an == AN_DEFF ? "d<sub>eff</sub> (pm/V)"
-                : an == AN_SINC2 ? "sinc<sup>2</sup>(Δk L/2)"
-                : an == AN_ACCEPT_TEMP ? "Temperature acceptance FWHM (°C)"
-                                       : axis_markup(target);
-            ps = dk_plot_set_ylabel(fig, ylab, &err);
-            int nfam = family ? nf : 1;
-            int nser = an == AN_GVM ? 3 : 1;
-            size_t cap = (size_t)nx * (MAX_ROOTS + 1) + 1;
-            double *lx = malloc(cap * sizeof *lx), *ly = malloc(cap * sizeof *ly);
-            if (!lx || !ly)
-                ps = dk_error_set(&err, DK_ENOMEM, "out of memory");
-            for (int f = 0; !ps && f < nfam; f++)
-                for (int sidx = 0; !ps && sidx < nser; sidx++) {
-                    /* Branch k of the roots, joined; NaN between branches. */
-                    size_t m = 0;
-                    int maxk = 0;
-                    for (int i = 0; i < nx; i++)
-                        maxk = pts[(size_t)f * nx + i].n > maxk
-                                   ? pts[(size_t)f * nx + i].n
-                                   : maxk;
-                    if (an == AN_GVM)
-                        maxk = 1;
-                    for (int k = 0; k < maxk; k++) {
-                        for (int i = 0; i < nx; i++) {
-                            const point *pt = &pts[(size_t)f * nx + i];
-                            int idx = an == AN_GVM ? sidx : k;
-                            lx[m] = xs[i];
-                            ly[m++] = idx < pt->n ? pt->y[idx] : NAN;
-                        }
-                        lx[m] = NAN, ly[m++] = NAN;
-                    }
-                    char lab[64] = "";
-                    if (an == AN_GVM) {
-                        static const char *const g[3] = {
-                            "signal − pump", "idler − pump", "signal − idler"};
-                        snprintf(lab, sizeof lab, "%s", g[sidx]);
-                    } else if (family) {
-                        family_label(fv, fam[f], lab, sizeof lab);
-                    }
-                    int any = 0;
-                    for (size_t q = 0; q < m; q++)
-                        any |= isfinite(ly[q]);
-                    if (any)
-                        ps = dk_plot_add_line(fig, lx, ly, m,
-                                              lab[0] ? lab : NULL, &err);
-                }
-            free(lx);
-            free(ly);
-            if (!ps && an == AN_SINC2)
-                ps = dk_plot_set_yrange(fig, 0, 1.05, &err);
-        }
+        dk_status ps = dk_plot_new(wmm, hmm, &fig, &err);
+        if (!ps)
+            ps = dk_plot_set_xlabel(fig, axis_markup(sp.x), &err);
+        if (!ps && dk_var_is_wavelength(sp.x))
+            ps = dk_plot_set_top_axis(fig, dk_plot_um_to_per_cm,
+                                      dk_plot_per_cm_to_um, NULL,
+                                      "Wavenumber (cm<sup>−1</sup>)", &err);
+        if (!ps)
+            ps = map ? plot_map(fig, &mp, &mres, &err)
+                     : plot_curves(fig, &sp, &res, &err);
         if (!ps)
             ps = dk_plot_write(fig, plot, &err);
         if (ps) {
@@ -604,19 +542,15 @@ cmd_sweep(int argc, char **argv)
             cli_out_discard(&out);
             goto done;
         }
-        if (!cm.csv)
+        if (!cm.csv && !cm.json)
             fprintf(out.f, "wrote %s\n", plot);
     }
     rc = cli_out_commit(&out);
-    goto done;
-oom:
-    cli_error("out of memory");
 done:
     dk_plot_free(fig);
-    free(xs);
-    free(ys);
-    free(zs);
-    free(pts);
+    dk_sweep_result_free(&res);
+    dk_map_result_free(&mres);
+    free(d);
     dk_db_free(db);
     return rc;
 }

@@ -13,6 +13,7 @@
 #include "design_args.h"
 #include "deltak/plot.h"
 #include "deltak/tolerance.h"
+#include "deltak/constants.h"
 #include "deltak/units.h"
 
 static const char *const tolerance_usage[] = {
@@ -20,6 +21,8 @@ static const char *const tolerance_usage[] = {
     "--signal/--idler)",
     "                 --length <L> [--temp <T>] [--period <P> | --type I|II "
     "[--pol <sip>] [--theta <deg>]]",
+    "                 [--phi <deg>] [--plane XY|YZ|XZ] [--solution <n>] "
+    "[--noncollinear <deg> | --broadband]",
     "                 [--dispersion <set>] [--json | --csv] [--curve "
     "<param>]",
     "",
@@ -31,16 +34,20 @@ static const char *const tolerance_usage[] = {
     "  --type, --pol     birefringent design: which solution of 'deltak "
     "angle' to use",
     "  --theta <deg>     birefringent design: the solution nearest this "
-    "angle",
+    "angle (default: largest d_eff)",
+    "  --solution, --phi, --plane, --noncollinear, --broadband  as for "
+    "'deltak angle'",
     "  --curve <param>   print sinc^2 against temperature, signal, pump, "
     "theta, phi, period or tilt",
     "  --plot <file>     with --curve: draw it (.pdf, .svg, .png), the FWHM "
     "shaded; --size as for sweep",
     "",
-    "Poled crystals get a QPM design unless --type or --theta is given.",
+    "Poled crystals get a QPM design unless --type or an angle option is "
+    "given (--scheme overrides).",
     NULL};
 
-#define DEG (M_PI / 180)
+#define DEG DK_RAD_PER_DEG
+#define ALLOWED (CLI_D_ALL)
 
 typedef struct item {
     dk_tol_param p;
@@ -91,25 +98,20 @@ print_curve(FILE *f, dk_design *d, const item *it, const char *plot,
 {
     dk_acceptance a;
     dk_error err = {0};
-    if (dk_design_tolerance(d, it->p, &a, &err))
-        return cli_error("%s", err.msg);
-    if (!a.bounded)
-        return cli_error("the %s acceptance is unbounded in the search "
-                         "range; no curve to draw",
-                         it->name);
-    double w = a.fwhm, x0 = a.peak;
     enum { NC = 401 };
     double xs[NC], ys[NC];
-    for (int k = 0; k < NC; k++) {
-        double x = x0 - 2 * w + 4 * w * k / (NC - 1);
-        double dk = dk_design_delta_k(d, it->p, x);
-        xs[k] = x * it->scale;
-        ys[k] = dk_sinc2(dk, d->length_mm * 1e3);
-    }
+    if (dk_design_acceptance_curve(d, it->p, 2, NC, xs, ys, &a, &err))
+        return cli_error("%s acceptance: %s", it->name, err.msg);
+    double w = a.fwhm, x0 = a.peak;
+    for (int k = 0; k < NC; k++)
+        xs[k] *= it->scale;
     if (!plot) {
-        fprintf(f, "%s_%s,sinc2\n", it->key, it->unit);
+        char flags[256];
+        unsigned rf = dk_design_range_flags(d, &d->waves, d->temp_c);
+        fprintf(f, "%s_%s,sinc2,flags\n", it->key, it->unit);
         for (int k = 0; k < NC; k++)
-            fprintf(f, "%.10g,%.8f\n", xs[k], ys[k]);
+            fprintf(f, "%.10g,%.8f,%s\n", xs[k], ys[k],
+                    cli_csv_flags(rf, d->shg, flags, sizeof flags));
         return 0;
     }
     dk_plot *fig = NULL;
@@ -146,22 +148,24 @@ cmd_tolerance(int argc, char **argv)
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"length", required_argument, NULL, 'L'},
         {"curve", required_argument, NULL, 'C'},
         {"plot", required_argument, NULL, 'G'},
         {"size", required_argument, NULL, 'Z'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *len = NULL, *curve = NULL, *plot = NULL, *size = "single";
+    const char *curve = NULL, *plot = NULL, *size = "single";
     int ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm) || cli_design_option(ch, &da))
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        if (cli_common_option(ch, &cm))
             continue;
+        if ((rc = cli_design_option(ch, opts, &da, tolerance_usage)) == 1)
+            continue;
+        if (rc)
+            return rc;
         switch (ch) {
-        case 'L': len = optarg; break;
         case 'C': curve = optarg; break;
         case 'G': plot = optarg; break;
         case 'Z': size = optarg; break;
@@ -171,16 +175,10 @@ cmd_tolerance(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 0, tolerance_usage)))
         return rc;
-    cli_design_spec sp;
-    dk_design d = {0};
     dk_error err = {0};
-    if ((rc = cli_design_parse(&da, &sp, 1, tolerance_usage)))
-        return rc;
-    if (!len)
+    if (!cli_design_given(&da, OPT_LENGTH))
         return cli_usage_error(tolerance_usage, "--length is required, e.g. "
                                                 "--length 20mm");
-    if (dk_parse_length(len, &d.length_mm, &err))
-        return cli_usage_error(tolerance_usage, "%s", err.msg);
     const item *want = NULL;
     for (size_t i = 0; curve && i < NITEMS; i++)
         if (!strcmp(curve, items[i].key))
@@ -201,13 +199,19 @@ cmd_tolerance(int argc, char **argv)
     if (cli_load_db(&db))
         return CLI_FAIL;
     rc = CLI_FAIL;
+    dk_design *dp = malloc(sizeof *dp);
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
-    if (!set)
+    dk_design_request rq;
+    if (!c || !dp)
         goto done;
-    int qpm;
-    if (cli_design_setup(&sp, c, set, &d, &qpm))
+    if ((rc = cli_design_request(&da, ALLOWED, 1, c, cm.crystal, cm.set_name,
+                                 &rq, tolerance_usage)) ||
+        (rc = cli_design_make(&rq, dp, 1)))
         goto done;
+    rc = CLI_FAIL;
+#define d (*dp)
+    const dk_dispersion_set *set = d.set;
+    int qpm = d.scheme == DK_SCHEME_QPM;
 
     cli_out out;
     if (cli_out_open(&out))
@@ -222,9 +226,15 @@ cmd_tolerance(int argc, char **argv)
     }
     dk_acceptance acc[NITEMS];
     int have[NITEMS] = {0};
+    int no_tdep = !dk_set_has_temperature(d.set);
     for (size_t i = 0; i < NITEMS; i++) {
         if (!dk_design_applies(&d, items[i].p))
             continue;
+        /* A set with no temperature dependence has no thermal width. */
+        if (items[i].p == DK_TOL_TEMPERATURE && no_tdep) {
+            have[i] = 2;
+            continue;
+        }
         if (dk_design_tolerance(&d, items[i].p, &acc[i], &err)) {
             cli_error("%s", err.msg);
             cli_out_discard(&out);
@@ -232,25 +242,35 @@ cmd_tolerance(int argc, char **argv)
         }
         have[i] = 1;
     }
-    /* Range warnings of the operating point, not of the searches. */
-    d.qpm.warnings = d.angle.warnings = 0;
-    dk_design_delta_k(&d, DK_TOL_TEMPERATURE, d.temp_c);
-    unsigned warn = d.kind == DK_DESIGN_QPM ? d.qpm.warnings
-                                            : d.angle.warnings;
-    cli_warn_index(set, warn, d.kind == DK_DESIGN_QPM && d.qpm.warn_lambda_um
-                                  ? d.qpm.warn_lambda_um
-                                  : d.waves.idler_um,
-                   d.temp_c);
-    cli_warn_caution(c, d.temp_c);
+    /* The acceptance edges may reach beyond the fitted ranges. */
+    for (size_t i = 0; i < NITEMS; i++) {
+        if (have[i] != 1 || !acc[i].bounded)
+            continue;
+        if (items[i].p == DK_TOL_TEMPERATURE) {
+            double e[2] = {acc[i].lo, acc[i].hi};
+            for (int k = 0; k < 2; k++) {
+                unsigned f = dk_design_range_flags(&d, &d.waves, e[k]);
+                dk_notes n;
+                dk_notes_clear(&n);
+                dk_design_note_range(&d, f & DK_RANGE_TEMP, &d.waves, e[k],
+                                     &n);
+                cli_take_notes(&n);
+            }
+        }
+    }
     double lcm = d.length_mm / 10;
     double nin = dk_design_input_index(&d);
     /* Idler width from the signal edges (energy conservation). */
     double idl_nm = NAN, sig_cm = NAN;
     if (have[1] && acc[1].bounded && !d.shg) {
-        double il = 1 / (1 / d.waves.pump_um - 1 / acc[1].lo);
-        double ih = 1 / (1 / d.waves.pump_um - 1 / acc[1].hi);
+        double il = dk_third_wave_um(d.waves.pump_um, acc[1].lo);
+        double ih = dk_third_wave_um(d.waves.pump_um, acc[1].hi);
         idl_nm = fabs(il - ih) * 1e3;
     }
+    if (no_tdep)
+        cli_warn("no temperature acceptance: data set '%s' has no "
+                 "temperature dependence (pick another with --dispersion)",
+                 set->name);
     if (have[1] && acc[1].bounded)
         sig_cm = 1e4 * fabs(1 / acc[1].lo - 1 / acc[1].hi);
     if (cm.json) {
@@ -271,12 +291,15 @@ cmd_tolerance(int argc, char **argv)
                                    cli_json_num(d.theta_rad / DEG));
             json_object_object_add(o, "phi_deg",
                                    cli_json_num(d.phi_rad / DEG));
+            if (d.angle.alpha_rad != 0)
+                json_object_object_add(o, "alpha_deg",
+                                       cli_json_num(d.angle.alpha_rad / DEG));
         }
         json_object *spec = json_object_new_object(),
                     *ang = json_object_new_object(),
                     *lin = json_object_new_object();
         for (size_t i = 0; i < NITEMS; i++) {
-            if (!have[i])
+            if (have[i] != 1)
                 continue;
             double v = acc[i].bounded ? acc[i].fwhm * items[i].scale : NAN;
             double l = acc[i].linear_fwhm * items[i].scale;
@@ -312,25 +335,40 @@ cmd_tolerance(int argc, char **argv)
         json_object_object_add(o, "angular_fwhm_mrad", ang);
         json_object *ext = json_object_new_object();
         for (size_t i = 0; i < NITEMS; i++)
-            if (have[i] && !strcmp(items[i].unit, "mrad") && acc[i].bounded)
+            if (have[i] == 1 && !strcmp(items[i].unit, "mrad") &&
+                acc[i].bounded)
                 json_object_object_add(ext, items[i].key,
                                        cli_json_num(acc[i].fwhm * 1e3 * nin));
         json_object_object_add(o, "external_angular_fwhm_mrad", ext);
         json_object_object_add(o, "linear_estimates", lin);
-        cli_warnings_to_json(o);
+        cli_notes_to_json(o);
         cli_out_json(&out, o);
     } else if (cm.csv) {
+        char flags[256];
+        unsigned rf = dk_design_range_flags(&d, &d.waves, d.temp_c);
+        cli_csv_flags(rf, d.shg, flags, sizeof flags);
         fprintf(out.f, "parameter,unit,fwhm,first_order_fwhm,per_length,"
-                       "per_length_unit\n");
+                       "per_length_unit,flags\n");
         for (size_t i = 0; i < NITEMS; i++) {
-            if (!have[i])
+            if (have[i] == 2)
+                fprintf(out.f, "%s,%s,,,,,%s%sno-temperature-dependence\n",
+                        items[i].key, items[i].unit, flags,
+                        flags[0] ? ";" : "");
+            if (have[i] != 1)
                 continue;
             int root;
             double pl = per_length(&acc[i], lcm, &root);
-            fprintf(out.f, "%s,%s,%.8g,%.8g,%.8g,%s*%s\n", items[i].key,
+            if (!acc[i].bounded) {
+                fprintf(out.f, "%s,%s,,%.8g,,,%s%sunbounded\n",
+                        items[i].key, items[i].unit,
+                        acc[i].linear_fwhm * items[i].scale, flags,
+                        flags[0] ? ";" : "");
+                continue;
+            }
+            fprintf(out.f, "%s,%s,%.8g,%.8g,%.8g,%s*%s,%s\n", items[i].key,
                     items[i].unit, acc[i].fwhm * items[i].scale,
                     acc[i].linear_fwhm * items[i].scale, pl * items[i].scale,
-                    items[i].unit, root ? "cm^0.5" : "cm");
+                    items[i].unit, root ? "cm^0.5" : "cm", flags);
         }
     } else {
         fprintf(out.f, "%s (data set %s), %s design, %.4g mm long, ", c->id,
@@ -338,6 +376,11 @@ cmd_tolerance(int argc, char **argv)
         if (qpm)
             fprintf(out.f, "period %.4f um, phase-matched at %.2f C\n",
                     d.period_um, d.temp_c);
+        else if (d.angle.alpha_rad != 0)
+            fprintf(out.f, "modes %s, theta %.3f deg, phi %.2f deg, "
+                           "noncollinear alpha %+.3f deg, %.4g C\n",
+                    d.pol, d.theta_rad / DEG, d.phi_rad / DEG,
+                    d.angle.alpha_rad / DEG, d.temp_c);
         else
             fprintf(out.f, "modes %s, theta %.3f deg, phi %.2f deg, %.4g C\n",
                     d.pol, d.theta_rad / DEG, d.phi_rad / DEG, d.temp_c);
@@ -354,6 +397,11 @@ cmd_tolerance(int argc, char **argv)
             const char *name = items[i].name;
             if (d.shg && items[i].p == DK_TOL_SIGNAL)
                 name = "fundamental";
+            if (have[i] == 2) {
+                fprintf(out.f, "  %-26s %14s\n", name,
+                        "n/a (set has no T dependence)");
+                continue;
+            }
             if (!acc[i].bounded) {
                 fprintf(out.f, "  %-26s %14s\n", name, "beyond search");
                 continue;
@@ -379,8 +427,8 @@ cmd_tolerance(int argc, char **argv)
         if (isfinite(idl_nm))
             fprintf(out.f, "; idler width %.4g nm (pump fixed)", idl_nm);
         for (size_t i = 0; i < NITEMS; i++)
-            if (have[i] && !strcmp(items[i].unit, "mrad") && acc[i].bounded &&
-                isfinite(nin))
+            if (have[i] == 1 && !strcmp(items[i].unit, "mrad") &&
+                acc[i].bounded && isfinite(nin))
                 fprintf(out.f, "\n  %s outside the crystal: about %.4g mrad "
                                "(x n = %.4f, normal incidence)",
                         items[i].key, acc[i].fwhm * 1e3 * nin, nin);
@@ -389,7 +437,9 @@ cmd_tolerance(int argc, char **argv)
                        "x L (critical) or x sqrt(L) (noncritical)\n");
     }
     rc = cli_out_commit(&out);
+#undef d
 done:
+    free(dp);
     dk_db_free(db);
     return rc;
 }

@@ -10,6 +10,8 @@
  * golden-section refinement).
  */
 #include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "deltak/angle.h"
@@ -48,7 +50,7 @@ signal_direction(double theta, double phi, double alpha, double s[3])
 /* Directions of the three waves for a pump along (θ, φ). Returns 0 when
  * the idler direction is undefined. */
 static int
-directions(dk_angle_problem *pb, const char pol[3], double theta, double phi,
+directions_of(dk_angle_problem *pb, const char pol[3], double theta, double phi,
            double sp[3], double ss[3], double si[3], dk_mode m[3],
            dk_error *err)
 {
@@ -78,13 +80,26 @@ directions(dk_angle_problem *pb, const char pol[3], double theta, double phi,
     return mode_of(pb, w->idler_um, si, pol[1], &m[1], err);
 }
 
+dk_status
+dk_angle_waves(dk_angle_problem *pb, const char pol[3], double theta_rad,
+               double phi_rad, double dir[3][3], dk_mode m[3], dk_error *err)
+{
+    dk_error e2 = {0};
+    if (!directions_of(pb, pol, theta_rad, phi_rad, dir[2], dir[0], dir[1], m,
+                       &e2))
+        return dk_error_set(err, e2.status ? e2.status : DK_EDOM, "%s",
+                            e2.msg[0] ? e2.msg
+                                      : "no mode at this direction");
+    return DK_OK;
+}
+
 double
 dk_angle_delta_k(dk_angle_problem *pb, const char pol[3], double theta_rad,
                  double phi_rad)
 {
     double sp[3], ss[3], si[3];
     dk_mode m[3];
-    if (!directions(pb, pol, theta_rad, phi_rad, sp, ss, si, m, NULL))
+    if (!directions_of(pb, pol, theta_rad, phi_rad, sp, ss, si, m, NULL))
         return NAN;
     const dk_waves *w = &pb->waves;
     double kp = m[2].n / w->pump_um, ks = m[0].n / w->signal_um;
@@ -117,7 +132,7 @@ dk_angle_describe(dk_angle_problem *pb, dk_angle_solution *sol,
     double sp[3], ss[3], si[3];
     dk_mode m[3];
     dk_error e2 = {0};
-    if (!directions(pb, sol->pol, sol->theta_rad, sol->phi_rad, sp, ss, si,
+    if (!directions_of(pb, sol->pol, sol->theta_rad, sol->phi_rad, sp, ss, si,
                     m, &e2))
         return dk_error_set(err, e2.status ? e2.status : DK_EDOM, "%s",
                             e2.msg[0] ? e2.msg : "no mode at this direction");
@@ -213,65 +228,135 @@ combinations(const dk_angle_problem *pb, char combos[8][4])
     return n;
 }
 
+/* Two solutions are the same cut up to symmetry when their |d_eff| and
+ * walk-offs agree. */
+static int
+same_cut(const dk_angle_solution *a, const dk_angle_solution *b)
+{
+    double da = a->deff_pm_per_v, db = b->deff_pm_per_v;
+    int deff_same = (isnan(da) && isnan(db)) ||
+                    fabs(da - db) <= 1e-6 * fmax(fabs(da), fabs(db)) + 1e-12;
+    for (int k = 0; k < 3 && deff_same; k++)
+        deff_same = fabs(a->walkoff_rad[k] - b->walkoff_rad[k]) < 1e-9;
+    return deff_same;
+}
+
+/* Describe a root along one line; returns 1 when it is a solution. */
+static int
+root_solution(dk_angle_problem *pb, const char *pol, int vary_phi,
+              double fixed, double x, const char *plane, int uniaxial,
+              double phi_opt, dk_angle_solution *o)
+{
+    memset(o, 0, sizeof *o);
+    memcpy(o->pol, pol, 4);
+    snprintf(o->plane, sizeof o->plane, "%s", plane);
+    o->theta_rad = vary_phi ? fixed : x;
+    o->phi_rad = vary_phi ? x : fixed;
+    if (uniaxial) {
+        o->phi_rad = isfinite(phi_opt) ? phi_opt : dk_angle_best_phi(pb, o);
+        return 1;
+    }
+    return dk_angle_describe(pb, o, NULL) == DK_OK;
+}
+
+static int
+by_angle(const void *a, const void *b)
+{
+    const dk_angle_solution *x = a, *y = b;
+    double u = strcmp(x->plane, "XY") ? x->theta_rad : x->phi_rad;
+    double v = strcmp(y->plane, "XY") ? y->theta_rad : y->phi_rad;
+    return (u > v) - (u < v);
+}
+
+/* Roots of Δk along θ (or φ when @vary_phi) at the fixed other angle,
+ * with their twins (see dk_angle_solve). */
 static dk_status
 solve_line(dk_angle_problem *pb, const char *pol, int vary_phi, double fixed,
-           const char *plane, double phi_opt, dk_angle_solution *sol, int max,
-           int *n, dk_error *err)
+           const char *plane, int uniaxial, double phi_opt,
+           dk_angle_solution *sol, int max, int *n, dk_error *err)
 {
     scan_probe sp = {pb, pol, vary_phi, fixed};
+    int collinear = pb->alpha_rad == 0;
+    /* Collinear Δk is symmetric about 90°: scan half, mirror the roots. */
+    double hi = collinear ? M_PI / 2 : (vary_phi ? M_PI * (1 - 1e-12) : M_PI);
+    int nscan = collinear ? ANGLE_SCAN : 2 * ANGLE_SCAN;
     double roots[16];
     int nr;
-    dk_status s = dk_roots_all(dk_along, &sp, 0, M_PI / 2, ANGLE_SCAN,
-                               ANGLE_TOL, roots, 16, &nr, err);
+    dk_status s = dk_roots_all(dk_along, &sp, 0, hi, nscan, ANGLE_TOL, roots,
+                               16, &nr, err);
     if (s)
         return s;
+    int first = *n;
     for (int r = 0; r < nr && *n < max; r++) {
         dk_angle_solution *o = &sol[*n];
-        memset(o, 0, sizeof *o);
-        memcpy(o->pol, pol, 4);
-        strcpy(o->plane, plane);
-        o->theta_rad = vary_phi ? fixed : roots[r];
-        o->phi_rad = vary_phi ? roots[r] : fixed;
-        if (!vary_phi && !plane[0])
-            o->phi_rad = isfinite(phi_opt) ? phi_opt
-                                           : dk_angle_best_phi(pb, o);
-        if (dk_angle_describe(pb, o, NULL))
+        if (!root_solution(pb, pol, vary_phi, fixed, roots[r], plane,
+                           uniaxial, phi_opt, o))
             continue;
         (*n)++;
+        double twin = M_PI - roots[r];
+        if (!collinear || fabs(twin - roots[r]) < 1e-9 || *n >= max ||
+            (vary_phi && twin >= M_PI))
+            continue;
+        dk_angle_solution *t = &sol[*n];
+        if (root_solution(pb, pol, vary_phi, fixed, twin, plane, uniaxial,
+                          phi_opt, t) &&
+            !same_cut(o, t))
+            (*n)++;
     }
+    qsort(sol + first, *n - first, sizeof *sol, by_angle);
     return DK_OK;
 }
 
 dk_status
-dk_angle_solve(dk_angle_problem *pb, double phi_rad, const char *only_pol,
+dk_angle_solve(dk_angle_problem *pb, const dk_angle_search *opt,
                dk_angle_solution *sol, int max, int *n, dk_error *err)
 {
     *n = 0;
-    if (pb->crystal->optical_class == DK_ISOTROPIC)
+    const dk_crystal *c = pb->crystal;
+    if (c->optical_class == DK_ISOTROPIC)
         return dk_error_set(err, DK_EINVAL,
                             "%s is isotropic: it has no birefringence to "
                             "phase-match with; use quasi-phase matching "
                             "('deltak period')",
-                            pb->crystal->id);
+                            c->id);
+    const char *only = opt ? opt->pol : NULL;
+    double phi = opt ? opt->phi_rad : NAN;
+    const char *plane = opt ? opt->plane : NULL;
+    if (plane && c->optical_class != DK_BIAXIAL)
+        return dk_error_set(err, DK_EINVAL,
+                            "a principal plane applies to biaxial crystals; "
+                            "%s is uniaxial (give --phi for the azimuth)",
+                            c->id);
+    if (plane && strcmp(plane, "XY") && strcmp(plane, "YZ") &&
+        strcmp(plane, "XZ"))
+        return dk_error_set(err, DK_EINVAL,
+                            "plane '%s' must be XY, YZ or XZ", plane);
     char combos[8][4];
     int nc = combinations(pb, combos);
-    for (int c = 0; c < nc; c++) {
-        if (only_pol && strncmp(only_pol, combos[c], 3) != 0)
+    for (int k = 0; k < nc; k++) {
+        if (only && strncmp(only, combos[k], 3) != 0)
             continue;
-        dk_status s;
-        if (pb->crystal->optical_class == DK_UNIAXIAL) {
+        dk_status s = DK_OK;
+        if (c->optical_class == DK_UNIAXIAL) {
             /* Δk does not depend on φ here; solve at φ = 0. */
-            s = solve_line(pb, combos[c], 0, 0.0, "", phi_rad, sol, max, n,
+            s = solve_line(pb, combos[k], 0, 0.0, "", 1, phi, sol, max, n,
+                           err);
+        } else if (isfinite(phi)) {
+            s = solve_line(pb, combos[k], 0, phi, "", 0, NAN, sol, max, n,
                            err);
         } else {
-            s = solve_line(pb, combos[c], 1, M_PI / 2, "XY", NAN, sol, max, n,
-                           err);
-            if (!s)
-                s = solve_line(pb, combos[c], 0, M_PI / 2, "YZ", NAN, sol,
-                               max, n, err);
-            if (!s)
-                s = solve_line(pb, combos[c], 0, 0.0, "XZ", NAN, sol, max, n,
-                               err);
+            static const struct {
+                const char *name;
+                int vary_phi;
+                double fixed;
+            } planes[] = {{"XY", 1, M_PI / 2},
+                          {"YZ", 0, M_PI / 2},
+                          {"XZ", 0, 0.0}};
+            for (size_t p = 0; p < 3 && !s; p++)
+                if (!plane || !strcmp(plane, planes[p].name))
+                    s = solve_line(pb, combos[k], planes[p].vary_phi,
+                                   planes[p].fixed, planes[p].name, 0, NAN,
+                                   sol, max, n, err);
         }
         if (s)
             return s;
@@ -331,12 +416,20 @@ dk_angle_ncpm_temperatures(dk_angle_problem *pb, const char pol[3],
     return s;
 }
 
-/* The phase-matching θ for the current α nearest @guess; NAN if none. */
+/* The phase-matching θ for the current α nearest @guess; NAN if none.
+ * Near a known root a small bracket around the guess is tried first. */
 static double
 theta_for_alpha(dk_angle_problem *pb, const char *pol, double phi,
                 double guess)
 {
     scan_probe sp = {pb, pol, 0, phi};
+    if (isfinite(guess)) {
+        double h = 2e-3, lo = fmax(0, guess - h), hi = fmin(M_PI, guess + h);
+        double flo = dk_along(lo, &sp), fhi = dk_along(hi, &sp), r;
+        if (isfinite(flo) && isfinite(fhi) && flo * fhi <= 0 &&
+            !dk_root_bracketed(dk_along, &sp, lo, hi, ANGLE_TOL, &r, NULL))
+            return r;
+    }
     double roots[16];
     int nr;
     if (dk_roots_all(dk_along, &sp, 0, M_PI / 2, 900, ANGLE_TOL, roots, 16,
@@ -354,22 +447,23 @@ typedef struct magic_probe {
     dk_angle_problem *pb;
     const char *pol;
     double phi;
+    int sign;       /* which side of the pump the signal lies on */
     double theta;   /* last phase-matching θ, a guess for the next */
 } magic_probe;
 
-/* n_gs cos Ω − n_gi at the phase-matching θ of this α. */
+/* n_gs cos Ω − n_gi at the phase-matching θ of this |α|. */
 static double
 gv_mismatch(double alpha, void *p)
 {
     magic_probe *mp = p;
-    mp->pb->alpha_rad = alpha;
+    mp->pb->alpha_rad = mp->sign * alpha;
     double th = theta_for_alpha(mp->pb, mp->pol, mp->phi, mp->theta);
     if (!isfinite(th))
         return NAN;
     mp->theta = th;
     double sp[3], ss[3], si[3];
     dk_mode m[3];
-    if (!directions(mp->pb, mp->pol, th, mp->phi, sp, ss, si, m, NULL))
+    if (!directions_of(mp->pb, mp->pol, th, mp->phi, sp, ss, si, m, NULL))
         return NAN;
     const dk_waves *w = &mp->pb->waves;
     double ngs = m[0].n - w->signal_um * m[0].dn_dl;
@@ -380,20 +474,23 @@ gv_mismatch(double alpha, void *p)
 
 dk_status
 dk_angle_magic_alpha(dk_angle_problem *pb, const char pol[3], double phi_rad,
-                     double alpha_max_rad, double *alpha_rad,
+                     int sign, double alpha_max_rad, double *alpha_rad,
                      double *theta_rad, dk_error *err)
 {
-    magic_probe mp = {pb, pol, phi_rad, NAN};
+    magic_probe mp = {pb, pol, phi_rad, sign < 0 ? -1 : 1, NAN};
     double keep = pb->alpha_rad;
-    double a0 = ALPHA_STEP, f0 = gv_mismatch(a0, &mp);
+    /* Start at α = 0: at degeneracy (equal signal and idler in one mode)
+     * the group velocities already match collinearly. */
+    double a0 = 0, f0 = gv_mismatch(a0, &mp);
     dk_status s = DK_ENOROOT;
-    for (double a1 = a0 + ALPHA_STEP; a1 <= alpha_max_rad; a1 += ALPHA_STEP) {
+    for (double a1 = ALPHA_STEP; a1 <= alpha_max_rad; a1 += ALPHA_STEP) {
         double f1 = gv_mismatch(a1, &mp);
         if (isfinite(f0) && isfinite(f1) && f0 * f1 <= 0) {
-            s = dk_root_bracketed(gv_mismatch, &mp, a0, a1, 1e-12, alpha_rad,
-                                  err);
+            double r;
+            s = dk_root_bracketed(gv_mismatch, &mp, a0, a1, 1e-12, &r, err);
             if (!s) {
-                gv_mismatch(*alpha_rad, &mp);
+                gv_mismatch(r, &mp);
+                *alpha_rad = mp.sign * r;
                 *theta_rad = mp.theta;
             }
             break;
@@ -403,9 +500,11 @@ dk_angle_magic_alpha(dk_angle_problem *pb, const char pol[3], double phi_rad,
     pb->alpha_rad = keep;
     if (s == DK_ENOROOT)
         return dk_error_set(err, DK_ENOROOT,
-                            "no noncollinear angle up to %.3g deg matches "
-                            "the signal and idler group velocities",
-                            alpha_max_rad * 180 / M_PI);
+                            "no noncollinear angle up to %.3g deg (signal %s "
+                            "Z than the pump) matches the signal and idler "
+                            "group velocities",
+                            alpha_max_rad * 180 / M_PI,
+                            mp.sign > 0 ? "farther from" : "nearer to");
     return s;
 }
 

@@ -164,12 +164,18 @@ dk_qpm_period(dk_qpm *q, const dk_waves *w, double temp_c,
 }
 
 double
+dk_qpm_grating_k(const dk_qpm *q, double period_um, double temp_c)
+{
+    return 2 * M_PI * q->order / (period_um * expansion(q, temp_c));
+}
+
+double
 dk_qpm_delta_k(dk_qpm *q, const dk_waves *w, double temp_c, double period_um)
 {
     double dk;
     if (dk_qpm_material_dk(q, w, temp_c, &dk, NULL))
         return NAN;
-    return fabs(dk) - 2 * M_PI * q->order / (period_um * expansion(q, temp_c));
+    return fabs(dk) - dk_qpm_grating_k(q, period_um, temp_c);
 }
 
 typedef struct temp_probe {
@@ -208,18 +214,11 @@ typedef struct freq_probe {
     double pump, period, temp;
 } freq_probe;
 
-static dk_waves
-waves_of_share(double pump, double x)
-{
-    dk_waves w = {pump, pump / x, pump / (1 - x)};
-    return w;
-}
-
 static double
 dk_of_share(double x, void *p)
 {
     freq_probe *fp = p;
-    dk_waves w = waves_of_share(fp->pump, x);
+    dk_waves w = dk_waves_of_share(fp->pump, x);
     return dk_qpm_delta_k(fp->q, &w, fp->temp, fp->period);
 }
 
@@ -257,7 +256,7 @@ dk_qpm_solve_wavelengths(dk_qpm *q, double pump_um, double period_um,
          * with the shorter signal. */
         if (same && x[i] < 0.5 - 1e-9)
             continue;
-        sol[(*n)++] = waves_of_share(pump_um, x[i]);
+        sol[(*n)++] = dk_waves_of_share(pump_um, x[i]);
     }
     /* Range warnings belong to the answers, not to the scan. */
     q->warnings = 0;

@@ -32,7 +32,7 @@ dk_waves_complete(dk_waves *w, dk_error *err)
                             "(%.6g um): the pump has the highest frequency",
                             w->signal_um > 0 ? "signal" : "idler", other,
                             w->pump_um);
-    double third = 1 / (1 / w->pump_um - 1 / other);
+    double third = dk_third_wave_um(w->pump_um, other);
     if (w->signal_um > 0)
         w->idler_um = third;
     else
@@ -44,5 +44,25 @@ dk_waves
 dk_waves_shg(double fundamental_um)
 {
     dk_waves w = {fundamental_um / 2, fundamental_um, fundamental_um};
+    return w;
+}
+
+int
+dk_waves_given(const dk_waves *w)
+{
+    return (w->pump_um > 0) + (w->signal_um > 0) + (w->idler_um > 0);
+}
+
+double
+dk_third_wave_um(double pump_um, double other_um)
+{
+    double inv = 1 / pump_um - 1 / other_um;
+    return inv > 0 && isfinite(inv) ? 1 / inv : NAN;
+}
+
+dk_waves
+dk_waves_of_share(double pump_um, double share)
+{
+    dk_waves w = {pump_um, pump_um / share, pump_um / (1 - share)};
     return w;
 }

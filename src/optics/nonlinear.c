@@ -126,5 +126,10 @@ dk_qpm_deff_factor(int m, double duty)
 {
     if (m < 1)
         return 0;
-    return fabs(2.0 / (M_PI * m) * sin(M_PI * m * duty));
+    /* Exactly zero where sin(π m D) vanishes (an even order at 50 %):
+     * rounding would otherwise leave a d_eff of 1e-16 that looks real. */
+    double s = sin(M_PI * m * duty);
+    if (fabs(s) < 1e-12)
+        return 0;
+    return fabs(2.0 / (M_PI * m) * s);
 }

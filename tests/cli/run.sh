@@ -75,14 +75,14 @@ expect period-temp 0 'phase-matches at [0-9.]+ C' -- period --crystal MgO:LN --p
 expect period-waves 0 'idler 3\.4[0-9]* um' -- period --crystal MgO:LN --pump 1064nm --period 30.5um --temp 40
 expect period-all-sets 0 'spread over 2 data sets' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --all-sets
 expect period-ktp-type2 0 'period 46\.' -- period --crystal PPKTP --pump 775nm --signal 1550nm --pol yzy --dispersion Fradkin1999
-expect period-unpoled 1 'cannot be periodically poled' -- period --crystal BBO --fundamental 1064nm
+expect period-unpoled 2 'cannot be periodically poled' -- period --crystal BBO --fundamental 1064nm
 expect period-one-wave 2 'exactly two of pump, signal and idler' -- period --crystal MgO:LN --pump 1064nm
 expect period-impossible 2 'must be longer than the pump' -- period --crystal MgO:LN --pump 1064nm --signal 800nm
-expect period-bad-pol 1 'must have three letters' -- period --crystal MgO:LN --fundamental 1064nm --pol zz
+expect period-bad-pol 2 'must have three letters' -- period --crystal MgO:LN --fundamental 1064nm --pol zz
 expect period-overdetermined 2 'drop --temp' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --temp 40
 expect period-no-root 1 'no phase-matching temperature' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 20um
 expect period-caution 0 'photorefractive' -- period --crystal LN --fundamental 1064nm --temp 40
-expect period-no-tdep 1 'no temperature dependence' -- period --crystal MgO:LN --dispersion Zelmon1997 --fundamental 1064nm --period 7um
+expect period-no-tdep 2 'no temperature dependence' -- period --crystal MgO:LN --dispersion Zelmon1997 --fundamental 1064nm --period 7um
 json_has period-json "crystal dispersion temperature_C wavelengths_um.pump wavelengths_um.signal wavelengths_um.idler period_um order deff_pm_per_V" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --json
 json_has period-json-sets "sets.0.dispersion sets.0.period_um sets.1.period_um" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --json --all-sets
 json_has period-json-temp "temperature_C solutions.0.temperature_C" -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --json
@@ -99,11 +99,11 @@ json_has chip-json "gratings.0.period_um gratings.0.lo_um gratings.0.hi_um fanou
 expect angle-bbo 0 'I +oo -> e +- +23\.[34]' -- angle --crystal BBO --fundamental 1030nm --type I
 expect angle-bbo-deff 0 'd_eff' -- angle --crystal BBO --fundamental 1064nm
 expect angle-ktp-xy 0 'XY' -- angle --crystal KTP --fundamental 1064nm --type II
-expect angle-magic 0 'noncollinear alpha 3\.8' -- angle --crystal BBO --pump 400nm --signal 600nm --magic
+expect angle-magic 0 'o o e +- +31\.5[0-9]* +90\.000 +\+3\.8' -- angle --crystal BBO --pump 400nm --signal 600nm --magic
 expect angle-ncpm 0 'X +1[0-9][0-9]\.' -- angle --crystal LBO --fundamental 1064nm --ncpm --dispersion Kato1994
 expect angle-cut 0 'ext deg' -- angle --crystal BBO --fundamental 1064nm --type I --cut 23
-expect angle-isotropic 1 'isotropic' -- angle --crystal GaAs --fundamental 4um
-expect angle-bad-type 2 "must be I or II" -- angle --crystal BBO --fundamental 1064nm --type III
+expect angle-isotropic 2 'isotropic' -- angle --crystal GaAs --fundamental 4um
+expect angle-bad-type 2 "must be 0, I or II" -- angle --crystal BBO --fundamental 1064nm --type III
 json_has angle-json "crystal dispersion wavelengths_um.pump solutions.0.type solutions.0.pol solutions.0.theta_deg solutions.0.phi_deg solutions.0.deff_pm_per_V solutions.0.walkoff_mrad.signal solutions.0.walkoff_mrad.idler solutions.0.walkoff_mrad.pump" -- angle --crystal BBO --fundamental 1030nm --type I --json
 json_has angle-json-sets "sets.2.solutions.0.theta_deg" -- angle --crystal BBO --fundamental 1030nm --type I --json --all-sets
 

@@ -1,0 +1,441 @@
+/*
+ * sweep_curves.c - tuning curves and analyses along one variable, as
+ * series of (x, y, range flags) (see deltak/sweep.h).
+ *
+ * Roots at each point are sorted; branch k of a curve joins the k-th
+ * roots of neighbouring points. Analyses bring the design back to phase
+ * matching at each point before they are evaluated, starting from the
+ * previous point's angle (a continuation along the curve).
+ */
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "deltak/pulse.h"
+#include "deltak/sweep.h"
+
+#define R DK_SWEEP_MAX_ROOTS
+
+/* The values of one point. */
+typedef struct point {
+    int n;
+    double y[R];
+    unsigned f[R];
+} point;
+
+static const struct {
+    const char *name, *value, *unit;
+} quantities[] = {
+    [DK_SWEEP_SOLVE] = {"", "", ""},
+    [DK_SWEEP_GVM] = {"gvm", "gvm", "fs_per_mm"},
+    [DK_SWEEP_DEFF] = {"deff", "deff", "pm_per_V"},
+    [DK_SWEEP_SINC2] = {"sinc2", "sinc2", "1"},
+    [DK_SWEEP_ACCEPT_TEMP] = {"accept-temp", "temperature_fwhm", "C"},
+    [DK_SWEEP_ACCEPT_SIGNAL] = {"accept-signal", "signal_fwhm", "nm"},
+    [DK_SWEEP_ACCEPT_THETA] = {"accept-theta", "theta_fwhm", "mrad"},
+};
+#define NQ (sizeof quantities / sizeof quantities[0])
+
+dk_status
+dk_sweep_quantity_parse(const char *name, dk_sweep_quantity *q,
+                        dk_var *target, dk_error *err)
+{
+    for (size_t i = 1; name && i < NQ; i++)
+        if (strcmp(name, quantities[i].name) == 0) {
+            *q = (dk_sweep_quantity)i;
+            return DK_OK;
+        }
+    *q = DK_SWEEP_SOLVE;
+    dk_error e2 = {0};
+    if (name && dk_var_parse(name, target, &e2) == DK_OK &&
+        *target != DK_VAR_PUMP && *target != DK_VAR_FUNDAMENTAL &&
+        *target != DK_VAR_ALPHA && *target != DK_VAR_LENGTH)
+        return DK_OK;
+    return dk_error_set(err, DK_EINVAL,
+                        "cannot solve for '%s': give idler, signal, "
+                        "wavelengths, period, temp, theta or phi, or an "
+                        "analysis: gvm, deff, sinc2, accept-temp, "
+                        "accept-signal, accept-theta",
+                        name ? name : "");
+}
+
+const char *
+dk_sweep_quantity_name(dk_sweep_quantity q, dk_var target)
+{
+    return q == DK_SWEEP_SOLVE ? dk_var_name(target) : quantities[q].value;
+}
+
+const char *
+dk_sweep_quantity_unit(dk_sweep_quantity q, dk_var target)
+{
+    return q == DK_SWEEP_SOLVE ? dk_var_unit(target) : quantities[q].unit;
+}
+
+/* The design's waves and temperature with @target set to @value. */
+static void
+point_state(const dk_sweep *s, dk_var target, double value, dk_waves *w,
+            double *t)
+{
+    *w = s->d.waves;
+    *t = s->d.temp_c;
+    if (target == DK_VAR_TEMP)
+        *t = value;
+    else if (target == DK_VAR_SIGNAL)
+        w->signal_um = value,
+        w->idler_um = dk_third_wave_um(w->pump_um, value);
+    else if (target == DK_VAR_IDLER)
+        w->idler_um = value,
+        w->signal_um = dk_third_wave_um(w->pump_um, value);
+}
+
+static int
+keep_period_of(const dk_design *base, const dk_sweep_spec *sp)
+{
+    return base->period_um > 0 &&
+           (base->rq.period_um > 0 || sp->x == DK_VAR_PERIOD ||
+            (sp->nfamily && sp->family == DK_VAR_PERIOD));
+}
+
+/* Evaluate one point; returns 0 (pt->n may be 0) or a status. */
+static dk_status
+eval_point(dk_sweep *s, const dk_sweep_spec *sp, int keep_period, point *pt,
+           dk_error *err)
+{
+    dk_design *d = &s->d;
+    pt->n = 0;
+    dk_status st;
+    if (sp->quantity == DK_SWEEP_SOLVE) {
+        if ((st = dk_sweep_solve(s, sp->target, pt->y, R, &pt->n, err)))
+            return st;
+        for (int k = 0; k < pt->n; k++) {
+            dk_waves w;
+            double t;
+            if (sp->target == DK_VAR_WAVELENGTHS) {
+                /* Pairs: signal, idler. */
+                w = d->waves;
+                w.signal_um = pt->y[k & ~1];
+                w.idler_um = (k | 1) < pt->n ? pt->y[k | 1] : NAN;
+                t = d->temp_c;
+            } else {
+                point_state(s, sp->target, pt->y[k], &w, &t);
+            }
+            pt->f[k] = dk_design_range_flags(d, &w, t);
+        }
+        return DK_OK;
+    }
+    if (sp->quantity != DK_SWEEP_SINC2 &&
+        (st = dk_sweep_rephase(s, keep_period, err)))
+        return st == DK_ENOROOT ? DK_OK : st;
+    unsigned f = dk_design_range_flags(d, &d->waves, d->temp_c);
+    switch (sp->quantity) {
+    case DK_SWEEP_GVM: {
+        dk_pulse_props pp;
+        if ((st = dk_pulse_props_of(d, &pp, err)))
+            return st;
+        for (int k = 0; k < 3; k++)
+            pt->y[k] = pp.gvm_fs_per_mm[k], pt->f[k] = f;
+        pt->n = 3;
+        return DK_OK;
+    }
+    case DK_SWEEP_DEFF:
+        pt->y[0] = dk_design_deff(d);
+        break;
+    case DK_SWEEP_SINC2:
+        pt->y[0] = dk_sweep_sinc2(s);
+        break;
+    default: {
+        dk_tol_param p = sp->quantity == DK_SWEEP_ACCEPT_TEMP
+                             ? DK_TOL_TEMPERATURE
+                         : sp->quantity == DK_SWEEP_ACCEPT_SIGNAL
+                             ? DK_TOL_SIGNAL
+                             : DK_TOL_THETA;
+        double scale = p == DK_TOL_TEMPERATURE ? 1 : 1e3;
+        dk_acceptance a;
+        if (!dk_design_applies(d, p))
+            return dk_error_set(err, DK_EINVAL,
+                                "this acceptance does not apply to a %s "
+                                "design",
+                                dk_scheme_str(d->scheme));
+        if ((st = dk_design_tolerance(d, p, &a, err)))
+            return st;
+        pt->y[0] = a.bounded ? a.fwhm * scale : NAN;
+    }
+    }
+    pt->f[0] = f;
+    pt->n = isfinite(pt->y[0]);
+    return DK_OK;
+}
+
+static void
+family_label(dk_var v, double val, char *buf, size_t n)
+{
+    switch (v) {
+    case DK_VAR_PERIOD: snprintf(buf, n, "Λ = %.4g µm", val); break;
+    case DK_VAR_TEMP: snprintf(buf, n, "%.4g °C", val); break;
+    case DK_VAR_THETA: snprintf(buf, n, "θ = %.4g°", val); break;
+    case DK_VAR_PHI: snprintf(buf, n, "φ = %.4g°", val); break;
+    case DK_VAR_ALPHA: snprintf(buf, n, "α = %.4g°", val); break;
+    case DK_VAR_LENGTH: snprintf(buf, n, "L = %.4g mm", val); break;
+    default: snprintf(buf, n, "%s %.5g µm", dk_var_name(v), val);
+    }
+}
+
+/* Where flagged points went beyond a fitted range, for the notes. */
+typedef struct excursion {
+    double lam_min[3], lam_max[3], t_min, t_max;
+} excursion;
+
+static void
+track(excursion *e, unsigned f, const dk_waves *w, double t)
+{
+    const double lam[3] = {w->signal_um, w->idler_um, w->pump_um};
+    static const unsigned bit[3] = {DK_RANGE_SIGNAL, DK_RANGE_IDLER,
+                                    DK_RANGE_PUMP};
+    for (int k = 0; k < 3; k++)
+        if ((f & bit[k]) && isfinite(lam[k])) {
+            e->lam_min[k] = fmin(e->lam_min[k], lam[k]);
+            e->lam_max[k] = fmax(e->lam_max[k], lam[k]);
+        }
+    if (f & (DK_RANGE_TEMP | DK_RANGE_NO_TEMP)) {
+        e->t_min = fmin(e->t_min, t);
+        e->t_max = fmax(e->t_max, t);
+    }
+}
+
+/* Notes on the excursions of a whole sweep. */
+static void
+note_excursions(const dk_design *d, unsigned flags, const excursion *e,
+                dk_notes *notes)
+{
+    const dk_dispersion_set *s = d->set;
+    static const unsigned bit[3] = {DK_RANGE_SIGNAL, DK_RANGE_IDLER,
+                                    DK_RANGE_PUMP};
+    for (int k = 0; k < 3; k++) {
+        if (!(flags & bit[k]) || (d->shg && k == 1))
+            continue;
+        char code[40];
+        snprintf(code, sizeof code, "range:%s", dk_design_wave_name(d, k));
+        for (char *c = code; *c; c++)
+            if (*c == ' ')
+                *c = '-';
+        dk_notes_add(notes, DK_NOTE_RANGE, code,
+                     "the %s spans %.5g-%.5g um at flagged points, outside "
+                     "the fitted range %.5g-%.5g um of data set '%s': "
+                     "extrapolated there",
+                     dk_design_wave_name(d, k), e->lam_min[k], e->lam_max[k],
+                     s->wavelength_range_um[0], s->wavelength_range_um[1],
+                     s->name);
+    }
+    if (flags & DK_RANGE_TEMP) {
+        const double *r = s->temp_form == DK_TEMP_NONE
+                              ? s->thermo.temperature_range_c
+                              : s->temperature_range_c;
+        dk_notes_add(notes, DK_NOTE_RANGE, "range:temperature",
+                     "temperatures %.5g-%.5g C at flagged points lie outside "
+                     "the fitted range %.5g-%.5g C of data set '%s': "
+                     "extrapolated there",
+                     e->t_min, e->t_max, r[0], r[1], s->name);
+    }
+    if (flags & DK_RANGE_NO_TEMP)
+        dk_notes_add(notes, DK_NOTE_RANGE, "no-temperature-dependence",
+                     "data set '%s' has no temperature dependence: points "
+                     "are evaluated at its %.5g C",
+                     s->name, s->reference_temperature_c);
+}
+
+void
+dk_sweep_result_free(dk_sweep_result *res)
+{
+    if (!res)
+        return;
+    for (int i = 0; i < res->nseries; i++) {
+        free(res->series[i].x);
+        free(res->series[i].y);
+        free(res->series[i].flags);
+    }
+    free(res->series);
+    res->series = NULL;
+    res->nseries = 0;
+}
+
+static dk_status
+check_spec(const dk_design *base, const dk_sweep_spec *sp, dk_error *err)
+{
+    if (sp->nx < 2 || sp->nx > DK_SWEEP_MAX_POINTS)
+        return dk_error_set(err, DK_EINVAL,
+                            "a curve has 2 to %d points, not %d",
+                            DK_SWEEP_MAX_POINTS, sp->nx);
+    if (!isfinite(sp->x_lo) || !isfinite(sp->x_hi) || sp->x_lo == sp->x_hi)
+        return dk_error_set(err, DK_EINVAL,
+                            "the range of %s must be finite with two "
+                            "different ends",
+                            dk_var_name(sp->x));
+    if (sp->nfamily < 0 || sp->nfamily > DK_SWEEP_MAX_FAMILY)
+        return dk_error_set(err, DK_EINVAL,
+                            "a family has at most %d members",
+                            DK_SWEEP_MAX_FAMILY);
+    if (sp->quantity == DK_SWEEP_SOLVE &&
+        (sp->target == sp->x ||
+         (sp->nfamily && sp->target == sp->family)))
+        return dk_error_set(err, DK_EINVAL,
+                            "cannot solve for '%s' while varying it",
+                            dk_var_name(sp->target));
+    /* Every variable must apply to this design. */
+    dk_sweep *probe = malloc(sizeof *probe);
+    if (!probe)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    dk_sweep_init(probe, base);
+    dk_status s = dk_sweep_set(probe, sp->x, sp->x_lo, err);
+    for (int f = 0; !s && f < sp->nfamily; f++)
+        s = dk_sweep_set(probe, sp->family, sp->family_values[f], err);
+    if (!s && sp->quantity == DK_SWEEP_SINC2 && !(probe->d.length_mm > 0))
+        s = dk_error_set(err, DK_EINVAL, "sinc^2 needs a crystal length");
+    free(probe);
+    return s;
+}
+
+/* Append a series of @n points; returns it or NULL when out of memory. */
+static dk_series *
+new_series(dk_sweep_result *res, size_t n)
+{
+    dk_series *grown =
+        realloc(res->series, (size_t)(res->nseries + 1) * sizeof *grown);
+    if (!grown)
+        return NULL;
+    res->series = grown;
+    dk_series *s = &res->series[res->nseries];
+    memset(s, 0, sizeof *s);
+    s->x = malloc(n * sizeof *s->x);
+    s->y = malloc(n * sizeof *s->y);
+    s->flags = calloc(n, sizeof *s->flags);
+    if (!s->x || !s->y || !s->flags) {
+        free(s->x), free(s->y), free(s->flags);
+        return NULL;
+    }
+    s->n = n;
+    s->family = -1;
+    s->wave = -1;
+    res->nseries++;
+    return s;
+}
+
+static const char *const gvm_labels[3] = {"signal − pump", "idler − pump",
+                                          "signal − idler"};
+
+/* Turn the points of one family member into series. */
+static dk_status
+add_series(dk_sweep_result *res, const dk_sweep_spec *sp, int f,
+           const double *xs, const point *pts, dk_error *err)
+{
+    int pairs = sp->quantity == DK_SWEEP_SOLVE &&
+                sp->target == DK_VAR_WAVELENGTHS;
+    int maxk = 0;
+    for (int i = 0; i < sp->nx; i++)
+        maxk = pts[i].n > maxk ? pts[i].n : maxk;
+    char fam[40] = "";
+    if (sp->nfamily)
+        family_label(sp->family, sp->family_values[f], fam, sizeof fam);
+    for (int k = 0; k < maxk; k++) {
+        dk_series *s = new_series(res, (size_t)sp->nx);
+        if (!s)
+            return dk_error_set(err, DK_ENOMEM, "out of memory");
+        s->family = sp->nfamily ? f : -1;
+        s->branch = pairs ? k / 2 : k;
+        s->wave = pairs ? k % 2 : -1;
+        char br[40] = "";
+        if (sp->quantity == DK_SWEEP_GVM)
+            snprintf(br, sizeof br, "%s", gvm_labels[k % 3]);
+        else if (pairs)
+            snprintf(br, sizeof br, "%s%s", k % 2 ? "idler" : "signal",
+                     maxk > 2 ? (k / 2 ? " (2nd pair)" : " (1st pair)") : "");
+        snprintf(s->label, sizeof s->label, "%s%s%s", fam,
+                 fam[0] && br[0] ? ", " : "", br);
+        for (int i = 0; i < sp->nx; i++) {
+            s->x[i] = xs[i];
+            s->y[i] = k < pts[i].n ? pts[i].y[k] : NAN;
+            s->flags[i] = k < pts[i].n ? pts[i].f[k] : 0;
+            res->flags |= s->flags[i];
+        }
+    }
+    return DK_OK;
+}
+
+dk_status
+dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
+                dk_sweep_result *res, dk_error *err)
+{
+    memset(res, 0, sizeof *res);
+    dk_notes_clear(&res->notes);
+    dk_status st = check_spec(base, sp, err);
+    if (st)
+        return st;
+    int keep_period = keep_period_of(base, sp);
+    double *xs = malloc((size_t)sp->nx * sizeof *xs);
+    point *pts = malloc((size_t)sp->nx * sizeof *pts);
+    dk_sweep *s = malloc(sizeof *s);
+    if (!xs || !pts || !s) {
+        free(xs), free(pts), free(s);
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    }
+    for (int i = 0; i < sp->nx; i++)
+        xs[i] = sp->x_lo + (sp->x_hi - sp->x_lo) * i / (sp->nx - 1);
+    excursion ex = {{INFINITY, INFINITY, INFINITY},
+                    {-INFINITY, -INFINITY, -INFINITY},
+                    INFINITY, -INFINITY};
+    dk_error first = {0};
+    long valued = 0;
+    int nfam = sp->nfamily ? sp->nfamily : 1;
+    for (int f = 0; f < nfam && !st; f++) {
+        dk_sweep_init(s, base);
+        if (sp->nfamily &&
+            (st = dk_sweep_set(s, sp->family, sp->family_values[f], err)))
+            break;
+        for (int i = 0; i < sp->nx; i++) {
+            dk_error e = {0};
+            pts[i].n = 0;
+            if (dk_sweep_set(s, sp->x, xs[i], &e) ||
+                eval_point(s, sp, keep_period, &pts[i], &e)) {
+                if (!first.msg[0])
+                    first = e;
+                continue;
+            }
+            valued += pts[i].n > 0;
+            for (int k = 0; k < pts[i].n; k++)
+                if (pts[i].f[k]) {
+                    dk_waves w;
+                    double t;
+                    if (sp->quantity == DK_SWEEP_SOLVE &&
+                        sp->target != DK_VAR_WAVELENGTHS)
+                        point_state(s, sp->target, pts[i].y[k], &w, &t);
+                    else if (sp->quantity == DK_SWEEP_SOLVE)
+                        w = s->d.waves, t = s->d.temp_c,
+                        w.signal_um = pts[i].y[k & ~1],
+                        w.idler_um = (k | 1) < pts[i].n ? pts[i].y[k | 1]
+                                                        : NAN;
+                    else
+                        w = s->d.waves, t = s->d.temp_c;
+                    track(&ex, pts[i].f[k], &w, t);
+                }
+        }
+        st = add_series(res, sp, f, xs, pts, err);
+    }
+    free(xs);
+    free(pts);
+    free(s);
+    if (!st && valued == 0)
+        st = dk_error_set(err, DK_ENOROOT,
+                          "no point of the sweep has a solution%s%s%s",
+                          first.msg[0] ? " (first failure: " : "",
+                          first.msg[0] ? first.msg : "",
+                          first.msg[0] ? ")" : "");
+    if (!st && first.msg[0] && strlen(first.msg) < 200)
+        dk_notes_add(&res->notes, DK_NOTE_WARNING, "points-without-value",
+                     "some points have no value (e.g. %s)", first.msg);
+    if (st) {
+        dk_sweep_result_free(res);
+        return st;
+    }
+    note_excursions(base, res->flags, &ex, &res->notes);
+    return DK_OK;
+}
