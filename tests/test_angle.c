@@ -249,12 +249,10 @@ magic_angle(void **state)
 }
 
 /* LBO type-I SHG of 1064 nm along X, noncritical: observed at about
- * 148-150 C (common practice). The only temperature-dependent LBO set in
- * the database (Kato1994) is typed from memory and gives 163.7 C; an
- * independent Python evaluation of the same coefficients (this project,
- * in the course of entering the file) gives 163.7 C too. This checks the
- * solver against that; the crystal file flags the disagreement with
- * experiment, and the set stays marked from memory until it is fixed. */
+ * 148-150 C (common practice). The Kato1994 set with the ΔT² factors of
+ * its thermo-optic formula gives 149.15 C (crystal-data-resolved §1; the
+ * same witness computed from indices alone is in test_witness_fixes.c).
+ * This checks the solver against that. */
 static void
 lbo_noncritical_temperature(void **state)
 {
@@ -262,7 +260,7 @@ lbo_noncritical_temperature(void **state)
     const dk_crystal *c = dk_db_find(db, "LBO");
     const dk_dispersion_set *s = dk_crystal_find_set(c, "Kato1994");
     assert_non_null(s);
-    assert_true(s->from_memory);
+    assert_false(s->from_memory);
     dk_angle_problem pb = {c, s, dk_waves_shg(1.064), 1, 25, 0, 0};
     double t[4];
     int n;
@@ -270,7 +268,7 @@ lbo_noncritical_temperature(void **state)
                                                 200, t, 4, &n, NULL),
                      DK_OK);
     assert_int_equal(n, 1);
-    assert_within(t[0], 163.7, 0, 0.3);
+    assert_within(t[0], 149.15, 0, 0.05);
 }
 
 static void

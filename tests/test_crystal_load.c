@@ -55,6 +55,62 @@ minimal_file(void **state)
     dk_crystal_free(c);
 }
 
+/* tests/data/good/defaults.yaml: default sets per use, wavelength
+ * cautions and per-order thermo-optic factors (invented numbers). */
+static void
+defaults_cautions_and_order_factors(void **state)
+{
+    (void)state;
+    dk_crystal *c = NULL;
+    dk_error err = {0};
+    assert_int_equal(dk_crystal_load(DK_TEST_DATA "/good/defaults.yaml", &c,
+                                     &err),
+                     DK_OK);
+    const char *why = NULL;
+    /* Set names match case-insensitively; the angle default is sets[0]. */
+    assert_ptr_equal(dk_crystal_default_set(c, DK_USE_ANGLE, &why),
+                     &c->sets[0]);
+    assert_string_equal(why, "invented angle reason");
+    assert_ptr_equal(dk_crystal_default_set(c, DK_USE_QPM, &why),
+                     &c->sets[1]);
+    assert_string_equal(why, "invented QPM reason");
+    assert_ptr_equal(dk_crystal_default_set(c, DK_USE_QPM, NULL),
+                     &c->sets[1]);
+
+    /* "below 0.8" applies strictly below, "above 4.5" strictly above. */
+    assert_string_equal(dk_crystal_caution_wavelength(c, 0.79),
+                        "invented two-photon caution");
+    assert_null(dk_crystal_caution_wavelength(c, 0.8));
+    assert_null(dk_crystal_caution_wavelength(c, 2.0));
+    assert_string_equal(dk_crystal_caution_wavelength(c, 4.6),
+                        "invented long-wave caution");
+
+    /* Δn = (2 λ + 3)·1e-6·(ΔT + 0.01 ΔT²): at λ = 1, ΔT = 50 that is
+     * 5e-6 · 75 = 3.75e-4 (hand computation), and dn/dT = 5e-6·(1 + 1). */
+    const dk_dispersion_set *s = &c->sets[0];
+    const dk_axis_formula *o = dk_set_find_axis(s, 'o');
+    double n20 = sqrt(4.0 + 0.1 / 0.96);
+    dk_index_value v;
+    assert_int_equal(dk_index_eval(s, o, 1.0, 70, &v, &err), DK_OK);
+    assert_within(v.n, n20 + 3.75e-4, 1e-14, 0);
+    assert_within(v.dn_dt, 5e-6 * 2.0, 1e-9, 0);
+    /* The e axis has no add-on. */
+    assert_within(dk_index_n(s, dk_set_find_axis(s, 'e'), 1.0, 70),
+                  sqrt(3.8 + 0.1 / 0.96), 1e-15, 0);
+    dk_crystal_free(c);
+
+    /* A file without default_sets: sets[0] for both uses, and the reason
+     * says so. */
+    assert_int_equal(dk_crystal_load(DK_TEST_DATA "/good/minimal.yaml", &c,
+                                     &err),
+                     DK_OK);
+    assert_ptr_equal(dk_crystal_default_set(c, DK_USE_QPM, &why),
+                     &c->sets[0]);
+    assert_string_equal(why, "first set in the file");
+    assert_null(dk_crystal_caution_wavelength(c, 0.3));
+    dk_crystal_free(c);
+}
+
 static void
 malformed_files(void **state)
 {
@@ -75,6 +131,13 @@ malformed_files(void **state)
         {"unknown-key", "unknown key 'pointgroup'", 1},
         {"bad-range", "low <= high", 1},
         {"empty", "empty", 0},
+        {"default-unknown-set", "default set 'Third2002' is not a data set",
+         1},
+        {"default-angle-not-first", "must be listed first", 1},
+        {"default-no-reason", "missing required key 'reason'", 1},
+        {"caution-both-bounds", "exactly one of 'below_um' or 'above_um'", 1},
+        {"caution-negative", "must be positive", 1},
+        {"order-factors-length", "one factor per row of 'orders' (2)", 1},
     };
     for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
         char path[512];
@@ -106,7 +169,7 @@ bad_file_in_folder_is_skipped(void **state)
     dk_error err = {0};
     assert_int_equal(dk_db_load(DK_TEST_DATA "/bad", &db, &err), DK_OK);
     assert_int_equal(db->ncrystals, 0);
-    assert_int_equal(db->nerrors, 11);
+    assert_int_equal(db->nerrors, 17);
     dk_db_free(db);
     assert_int_equal(dk_db_load("/nonexistent", &db, &err), DK_EIO);
 }
@@ -117,6 +180,7 @@ main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(shipped_database_loads),
         cmocka_unit_test(minimal_file),
+        cmocka_unit_test(defaults_cautions_and_order_factors),
         cmocka_unit_test(malformed_files),
         cmocka_unit_test(bad_file_in_folder_is_skipped),
     };

@@ -30,6 +30,21 @@ typedef struct dk_caution_range {
     const char *text;
 } dk_caution_range;
 
+/* A caution that applies when a wave is below (or above) a wavelength,
+ * e.g. two-photon absorption. */
+typedef struct dk_wavelength_caution {
+    int below;            /* 1: applies below lambda_um; 0: above */
+    double lambda_um;
+    const char *text;
+} dk_wavelength_caution;
+
+/* What a default data set is for: birefringent angles (and everything
+ * else) or quasi-phase matching (poling periods). */
+typedef enum dk_set_use {
+    DK_USE_ANGLE,
+    DK_USE_QPM
+} dk_set_use;
+
 /* Thermal expansion of one axis: L(T) = L_ref [1 + α ΔT + β ΔT²]. */
 typedef struct dk_expansion_axis {
     int present;
@@ -57,6 +72,8 @@ typedef struct dk_crystal {
     const char **cautions;
     int ncaution_ranges;
     dk_caution_range *caution_ranges;
+    int nwavelength_cautions;
+    dk_wavelength_caution *wavelength_cautions;
     int has_damage;
     double damage_gw_per_cm2;
     const char *damage_pulse;
@@ -64,6 +81,8 @@ typedef struct dk_crystal {
 
     int nsets;
     dk_dispersion_set *sets;        /* sets[0] is the default */
+    int default_set[2];             /* index into sets per dk_set_use */
+    const char *default_reason[2];  /* the file's reason, or NULL */
 
     int has_expansion;
     const char *expansion_citation;
@@ -170,5 +189,36 @@ double dk_crystal_expansion_factor(const dk_crystal *c, int axis,
  * @temp_c (e.g. photorefractive damage below 100 C), or NULL.
  */
 const char *dk_crystal_caution_at(const dk_crystal *c, double temp_c);
+
+/*
+ * dk_crystal_caution_wavelength:
+ * @lambda_um: vacuum wavelength of one wave, µm
+ *
+ * Returns: the text of the first wavelength caution of @c that applies at
+ * @lambda_um (e.g. two-photon absorption below a stated wavelength), or
+ * NULL. A caution "below L" applies for λ < L, "above L" for λ > L.
+ * Call it once per wave of a process.
+ */
+const char *dk_crystal_caution_wavelength(const dk_crystal *c,
+                                          double lambda_um);
+
+/*
+ * dk_crystal_default_set:
+ * @use: DK_USE_ANGLE (birefringent angles and everything that is not a
+ *       poling period) or DK_USE_QPM (quasi-phase matching)
+ * @reason: if not NULL, gets a one-line reason, never NULL: the reason the
+ *       crystal file states (`default_sets` in crystals/README.md), or
+ *       "first set in the file"
+ *
+ * The set to use by default for @use. The default for angles is always
+ * sets[0] (the loader insists); the default for QPM may differ (e.g. KTP,
+ * where the set fitted to poled-crystal data gives the periods in use).
+ * A crystal file without `default_sets` gets sets[0] for both.
+ *
+ * Returns: the set, never NULL for a loaded crystal.
+ */
+const dk_dispersion_set *dk_crystal_default_set(const dk_crystal *c,
+                                                dk_set_use use,
+                                                const char **reason);
 
 #endif /* DK_CRYSTAL_H */

@@ -14,7 +14,13 @@
  *   log_ratio  S ln[(A² − x²) / (B² − x²)]
  *
  * The sum is n² or n. A separate thermo-optic formula may add
- * Σ_k ΔT^k · factor · Σ_j c_kj λ^e_j to n. The crystal-file schema is in
+ * Σ_k ΔT^k · factor · g_k · Σ_j c_kj λ^e_j to n, where g_k is an optional
+ * per-order factor (1 by default). The per-order factor carries forms that
+ * print the temperature part as one product, e.g. K. Kato, IEEE J. Quantum
+ * Electron. 30, 2950 (1994) for LiB3O5:
+ *   Δn_X = (−3.76 λ + 2.30)·1e-6 · (ΔT + 29.13e-3 ΔT²),
+ * entered as orders [[a, b], [a, b]] with g = [1, 29.13e-3], so the
+ * paper's numbers stay as printed. The crystal-file schema is in
  * crystals/README.md.
  */
 #ifndef DK_DISPERSION_H
@@ -71,6 +77,7 @@ typedef enum dk_quantity {
 typedef struct dk_thermo_axis {
     int orders;                                   /* highest power of ΔT */
     double c[DK_THERMO_ORDERS][DK_THERMO_EXPS];   /* c[k-1][j] */
+    double order_factor[DK_THERMO_ORDERS];        /* g_k; 1 when not given */
 } dk_thermo_axis;
 
 /* One axis of a set: its terms and, if any, its thermo-optic add-on. */

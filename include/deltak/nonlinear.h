@@ -13,6 +13,12 @@
  *   d_eff = Σ_ijk d_ijk a_i b_j c_k
  *
  * for unit field vectors a, b, c of the three waves (Boyd, §2.3).
+ *
+ * Miller's rule (R. C. Miller, Appl. Phys. Lett. 5, 17 (1964)): the ratio
+ * δ = χ⁽²⁾(ω3; ω1, ω2) / [χ(ω1) χ(ω2) χ(ω3)] is nearly the same for all
+ * frequencies and materials, with χ(ω) = n(ω)² − 1 the linear
+ * susceptibility. So d measured at one set of wavelengths scales to
+ * another as the product of the three (n² − 1).
  */
 #ifndef DK_NONLINEAR_H
 #define DK_NONLINEAR_H
@@ -45,5 +51,26 @@ double dk_deff(const dk_dtensor *t, const double a[3], const double b[3],
  * 2631 (1992), eq. 11). Returns 0 for even orders at 50 % duty.
  */
 double dk_qpm_deff_factor(int m, double duty);
+
+/*
+ * dk_miller_factor:
+ * @n_process: refractive indices of the process waves (signal, idler,
+ *             pump), each along its own polarization
+ * @n_measured: the same for the measurement (for SHG of the crystal file's
+ *             nl_wavelength_um: the fundamental twice, then the second
+ *             harmonic)
+ *
+ * d at the process wavelengths over d at the measurement (SHG of
+ * nl_wavelength_um) wavelengths: Π_k (n_k² − 1) for the process over the
+ * same for the measurement (Miller's rule, Miller, Appl. Phys. Lett. 5, 17
+ * (1964)). Near an absorption edge (a wave inside or close to the band
+ * gap, e.g. the second harmonic of GaAs or GaP measured at 1.064 µm) the
+ * rule is only a rough guide.
+ *
+ * Returns: the factor (> 0); NAN when any n is not finite or any
+ * χ = n² − 1 is not positive.
+ */
+double dk_miller_factor(const double n_process[3],
+                        const double n_measured[3]);
 
 #endif /* DK_NONLINEAR_H */

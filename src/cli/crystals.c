@@ -80,10 +80,14 @@ print_list(FILE *f, const dk_db *db)
 }
 
 static void
-print_set(FILE *f, const dk_dispersion_set *s, int is_default)
+print_set(FILE *f, const dk_dispersion_set *s, int is_default,
+          int is_qpm_default)
 {
     fprintf(f, "\n  data set %s%s%s\n", s->name,
-            is_default ? " (default)" : "",
+            is_default && is_qpm_default ? " (default)"
+            : is_default                 ? " (default; for QPM see below)"
+            : is_qpm_default             ? " (default for QPM)"
+                                         : "",
             s->from_memory ? "  [typed from memory, not yet checked]" : "");
     fprintf(f, "    source       %s\n", s->citation);
     if (s->doi)
@@ -128,8 +132,17 @@ print_one(FILE *f, const dk_crystal *c)
         fprintf(f, "; polar axis %s, grating along %s",
                 axis_name(c->polar_axis), axis_name(c->grating_axis));
     fputc('\n', f);
+    const char *why_a, *why_q;
+    const dk_dispersion_set *def_a = dk_crystal_default_set(c, DK_USE_ANGLE,
+                                                            &why_a);
+    const dk_dispersion_set *def_q = dk_crystal_default_set(c, DK_USE_QPM,
+                                                            &why_q);
+    fprintf(f, "  default set  %s: %s\n", def_a->name, why_a);
+    if (c->poling != DK_POLING_NONE || def_q != def_a)
+        fprintf(f, "  QPM default  %s: %s\n", def_q->name, why_q);
     for (int i = 0; i < c->nsets; i++)
-        print_set(f, &c->sets[i], i == 0);
+        print_set(f, &c->sets[i], &c->sets[i] == def_a,
+                  &c->sets[i] == def_q);
     if (c->has_expansion) {
         fprintf(f, "\n  thermal expansion (reference %g C; %s)\n",
                 c->expansion_reference_c, c->expansion_citation);
@@ -148,7 +161,8 @@ print_one(FILE *f, const dk_crystal *c)
             fprintf(f, " %s = %g pm/V%s", c->d_names[i], c->d_values[i],
                     i + 1 < c->nd ? "," : "\n");
     }
-    if (c->ncautions || c->ncaution_ranges || c->has_damage) {
+    if (c->ncautions || c->ncaution_ranges || c->nwavelength_cautions ||
+        c->has_damage) {
         fprintf(f, "\n  cautions\n");
         for (int i = 0; i < c->ncautions; i++)
             fprintf(f, "    - %s\n", c->cautions[i]);
@@ -156,6 +170,11 @@ print_one(FILE *f, const dk_crystal *c)
             fprintf(f, "    - %s %g C: %s\n",
                     c->caution_ranges[i].below ? "below" : "above",
                     c->caution_ranges[i].temp_c, c->caution_ranges[i].text);
+        for (int i = 0; i < c->nwavelength_cautions; i++)
+            fprintf(f, "    - a wave %s %g um: %s\n",
+                    c->wavelength_cautions[i].below ? "below" : "above",
+                    c->wavelength_cautions[i].lambda_um,
+                    c->wavelength_cautions[i].text);
         if (c->has_damage)
             fprintf(f, "    - damage threshold about %g GW/cm^2 (%s; %s)\n",
                     c->damage_gw_per_cm2, c->damage_pulse, c->damage_source);
@@ -219,6 +238,21 @@ crystal_json(const dk_crystal *c, int full)
         json_object_array_add(sets, so);
     }
     json_object_object_add(o, "sets", sets);
+    if (full) {
+        json_object *defs = json_object_new_object();
+        static const char *const use_key[] = {"angle", "qpm"};
+        for (int u = 0; u < 2; u++) {
+            const char *why;
+            const dk_dispersion_set *d =
+                dk_crystal_default_set(c, u ? DK_USE_QPM : DK_USE_ANGLE, &why);
+            json_object *dj = json_object_new_object();
+            json_object_object_add(dj, "dispersion",
+                                   json_object_new_string(d->name));
+            json_object_object_add(dj, "reason", json_object_new_string(why));
+            json_object_object_add(defs, use_key[u], dj);
+        }
+        json_object_object_add(o, "default_sets", defs);
+    }
     if (full && c->has_nonlinear) {
         json_object *d = json_object_new_object();
         for (int i = 0; i < c->nd; i++)
@@ -231,6 +265,16 @@ crystal_json(const dk_crystal *c, int full)
         for (int i = 0; i < c->ncautions; i++)
             json_object_array_add(ca, json_object_new_string(c->cautions[i]));
         json_object_object_add(o, "cautions", ca);
+        json_object *wc = json_object_new_array();
+        for (int i = 0; i < c->nwavelength_cautions; i++) {
+            const dk_wavelength_caution *w = &c->wavelength_cautions[i];
+            json_object *wo = json_object_new_object();
+            json_object_object_add(wo, w->below ? "below_um" : "above_um",
+                                   cli_json_num(w->lambda_um));
+            json_object_object_add(wo, "text", json_object_new_string(w->text));
+            json_object_array_add(wc, wo);
+        }
+        json_object_object_add(o, "wavelength_cautions", wc);
     }
     return o;
 }

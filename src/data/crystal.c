@@ -253,3 +253,28 @@ dk_crystal_caution_at(const dk_crystal *c, double temp_c)
     }
     return NULL;
 }
+
+const char *
+dk_crystal_caution_wavelength(const dk_crystal *c, double lambda_um)
+{
+    for (int i = 0; i < c->nwavelength_cautions; i++) {
+        const dk_wavelength_caution *w = &c->wavelength_cautions[i];
+        if (w->below ? lambda_um < w->lambda_um : lambda_um > w->lambda_um)
+            return w->text;
+    }
+    return NULL;
+}
+
+const dk_dispersion_set *
+dk_crystal_default_set(const dk_crystal *c, dk_set_use use,
+                       const char **reason)
+{
+    int u = use == DK_USE_QPM ? 1 : 0;
+    int i = c->default_set[u];
+    if (i < 0 || i >= c->nsets)
+        i = 0;
+    if (reason)
+        *reason = c->default_reason[u] ? c->default_reason[u]
+                                       : "first set in the file";
+    return &c->sets[i];
+}

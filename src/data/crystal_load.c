@@ -450,7 +450,8 @@ read_thermo(ctx *c, yaml_node_t *n, dk_dispersion_set *set)
     yaml_node_t *axes = get(c, n, "axes");
     if ((s = check_keys(c, axes, "'thermo_optic: axes'", NULL)))
         return s;
-    static const char *const tax_keys[] = {"coefficients", "orders", NULL};
+    static const char *const tax_keys[] = {"coefficients", "orders",
+                                           "order_factors", NULL};
     for (yaml_node_pair_t *p = axes->data.mapping.pairs.start;
          p < axes->data.mapping.pairs.top; p++) {
         yaml_node_t *k = node_at(c, p->key), *v = node_at(c, p->value);
@@ -484,6 +485,20 @@ read_thermo(ctx *c, yaml_node_t *n, dk_dispersion_set *set)
                 if ((s = resolve_value(
                          c, node_at(c, row->data.sequence.items.start[j]), &t,
                          &ax->thermo.c[k2][j])))
+                    return s;
+        }
+        for (int k2 = 0; k2 < DK_THERMO_ORDERS; k2++)
+            ax->thermo.order_factor[k2] = 1;
+        yaml_node_t *of = get(c, v, "order_factors");
+        if (of) {
+            if (of->type != YAML_SEQUENCE_NODE ||
+                seq_len(of) != ax->thermo.orders)
+                return fail(c, of, "'order_factors' must list one factor per "
+                                   "row of 'orders' (%d)", ax->thermo.orders);
+            for (int k2 = 0; k2 < ax->thermo.orders; k2++)
+                if ((s = resolve_value(
+                         c, node_at(c, of->data.sequence.items.start[k2]), &t,
+                         &ax->thermo.order_factor[k2])))
                     return s;
         }
         ax->has_thermo = 1;
@@ -734,11 +749,88 @@ read_cautions(ctx *c, yaml_node_t *root, dk_crystal *cr)
     return DK_OK;
 }
 
+static dk_status
+read_wavelength_cautions(ctx *c, yaml_node_t *root, dk_crystal *cr)
+{
+    yaml_node_t *r = get(c, root, "wavelength_cautions");
+    if (!r)
+        return DK_OK;
+    if (r->type != YAML_SEQUENCE_NODE)
+        return fail(c, r, "'wavelength_cautions' must be a list");
+    cr->nwavelength_cautions = seq_len(r);
+    cr->wavelength_cautions = dk_arena_alloc(
+        c->arena,
+        sizeof(dk_wavelength_caution) * (cr->nwavelength_cautions + 1));
+    if (!cr->wavelength_cautions)
+        return dk_error_set(c->err, DK_ENOMEM, "out of memory");
+    static const char *const keys[] = {"below_um", "above_um", "text", NULL};
+    for (int i = 0; i < cr->nwavelength_cautions; i++) {
+        yaml_node_t *it = node_at(c, r->data.sequence.items.start[i]);
+        dk_wavelength_caution *w = &cr->wavelength_cautions[i];
+        dk_status s;
+        if ((s = check_keys(c, it, "a wavelength caution", keys)) ||
+            (s = get_string(c, it, "text", 1, &w->text)))
+            return s;
+        yaml_node_t *b = get(c, it, "below_um"), *a = get(c, it, "above_um");
+        if (!!a == !!b)
+            return fail(c, it, "a wavelength caution needs exactly one of "
+                               "'below_um' or 'above_um'");
+        w->below = b != NULL;
+        if ((s = parse_number(c, b ? b : a, b ? "below_um" : "above_um",
+                              &w->lambda_um)))
+            return s;
+        if (!(w->lambda_um > 0))
+            return fail(c, b ? b : a, "a caution wavelength must be "
+                                      "positive (in um)");
+    }
+    return DK_OK;
+}
+
+/* default_sets: {angle: {set, reason}, qpm: {set, reason}}, both optional. */
+static dk_status
+read_default_sets(ctx *c, yaml_node_t *root, dk_crystal *cr)
+{
+    cr->default_set[0] = cr->default_set[1] = 0;
+    cr->default_reason[0] = cr->default_reason[1] = NULL;
+    yaml_node_t *d = get(c, root, "default_sets");
+    if (!d)
+        return DK_OK;
+    static const char *const keys[] = {"angle", "qpm", NULL};
+    static const char *const use_keys[] = {"set", "reason", NULL};
+    dk_status s = check_keys(c, d, "'default_sets'", keys);
+    if (s)
+        return s;
+    for (int u = 0; u < 2; u++) {
+        yaml_node_t *e = get(c, d, keys[u]);
+        if (!e)
+            continue;
+        const char *name = NULL;
+        if ((s = check_keys(c, e, "a default set", use_keys)) ||
+            (s = get_string(c, e, "set", 1, &name)) ||
+            (s = get_string(c, e, "reason", 1, &cr->default_reason[u])))
+            return s;
+        int found = -1;
+        for (int i = 0; i < cr->nsets; i++)
+            if (strcasecmp(cr->sets[i].name, name) == 0)
+                found = i;
+        if (found < 0)
+            return fail(c, get(c, e, "set"), "default set '%s' is not a "
+                                             "data set of this file", name);
+        if (u == 0 && found != 0)
+            return fail(c, get(c, e, "set"),
+                        "the default set for angles must be listed first "
+                        "under 'dispersion' ('%s' is not)", name);
+        cr->default_set[u] = found;
+    }
+    return DK_OK;
+}
+
 static const char *const crystal_keys[] = {
     "id", "name", "aliases", "class", "point_group", "frame",
     "transparency_um", "transparency_source", "poling", "polar_axis",
-    "grating_axis", "cautions", "caution_ranges", "damage_threshold",
-    "dispersion", "thermal_expansion", "nonlinear", NULL};
+    "grating_axis", "cautions", "caution_ranges", "wavelength_cautions",
+    "damage_threshold", "dispersion", "default_sets", "thermal_expansion",
+    "nonlinear", NULL};
 
 static dk_status
 read_crystal(ctx *c, yaml_node_t *root, dk_crystal *cr)
@@ -760,7 +852,8 @@ read_crystal(ctx *c, yaml_node_t *root, dk_crystal *cr)
         (s = get_string(c, root, "grating_axis", 0, &grating)) ||
         (s = get_string_list(c, root, "aliases", &cr->aliases,
                              &cr->naliases)) ||
-        (s = read_cautions(c, root, cr)))
+        (s = read_cautions(c, root, cr)) ||
+        (s = read_wavelength_cautions(c, root, cr)))
         return s;
     if (!(cr->transparency_um[0] > 0))
         return fail(c, get(c, root, "transparency_um"),
@@ -826,6 +919,8 @@ read_crystal(ctx *c, yaml_node_t *root, dk_crystal *cr)
                 return fail(c, sn, "duplicate data set name '%s'",
                             cr->sets[i].name);
     }
+    if ((s = read_default_sets(c, root, cr)))
+        return s;
     yaml_node_t *ex = get(c, root, "thermal_expansion");
     if (ex && (s = read_expansion(c, ex, cr)))
         return s;

@@ -14,7 +14,12 @@
  *   photon-energy forms with logarithms (Skauli et al., J. Appl. Phys. 94,
  *     6447 (2003)),
  *   thermo-optic polynomials dn/dT = Σ c_j λ^e_j (Kato & Takaoka, Appl.
- *     Opt. 41, 5040 (2002); Emanueli & Arie, Appl. Opt. 42, 6661 (2003)).
+ *     Opt. 41, 5040 (2002); Emanueli & Arie, Appl. Opt. 42, 6661 (2003)),
+ *   thermo-optic products (a λ + b)(ΔT + q ΔT²), with q a per-order factor
+ *     of the ΔT² row (Kato, IEEE J. Quantum Electron. 30, 2950 (1994)).
+ *
+ * Thermo-optic add-on: n(λ, T) = n(λ, T_ref)
+ *   + Σ_k ΔT^k · factor · g_k · Σ_j c_kj λ^e_j,   ΔT = T − T_ref.
  */
 #include <math.h>
 #include <stddef.h>
@@ -147,7 +152,9 @@ eval_jet(const dk_dispersion_set *set, const dk_axis_formula *axis,
                 inner = jet_add(inner,
                                 jet_scale(jet_pow(lam, th->exps[j]),
                                           axis->thermo.c[k][j]));
-            n = jet_add(n, jet_scale(jet_mul(dtk, inner), th->factor));
+            n = jet_add(n, jet_scale(jet_mul(dtk, inner),
+                                     th->factor *
+                                         axis->thermo.order_factor[k]));
         }
     }
     if (!jet_isfinite(n))

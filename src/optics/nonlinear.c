@@ -15,6 +15,10 @@
  * Kleinman symmetry then copies each nonzero element to every index
  * permutation whose element is still zero (so, e.g., d15 = d31 in 3m
  * when only d31 is given).
+ *
+ * Miller's rule: d(ω3; ω1, ω2) ∝ χ(ω1) χ(ω2) χ(ω3), χ = n² − 1
+ * (R. C. Miller, Optical second harmonic generation in piezoelectric
+ * crystals, Appl. Phys. Lett. 5, 17-19 (1964)).
  */
 #include <math.h>
 #include <string.h>
@@ -132,4 +136,19 @@ dk_qpm_deff_factor(int m, double duty)
     if (fabs(s) < 1e-12)
         return 0;
     return fabs(2.0 / (M_PI * m) * s);
+}
+
+double
+dk_miller_factor(const double n_process[3], const double n_measured[3])
+{
+    double num = 1, den = 1;
+    for (int k = 0; k < 3; k++) {
+        double cp = n_process[k] * n_process[k] - 1;
+        double cm = n_measured[k] * n_measured[k] - 1;
+        if (!isfinite(cp) || !isfinite(cm) || !(cp > 0) || !(cm > 0))
+            return NAN;
+        num *= cp;
+        den *= cm;
+    }
+    return num / den;
 }

@@ -49,6 +49,7 @@ expect no-command 2 'usage: deltak' --
 expect crystals-list 0 'MgO:LiNbO3' -- crystals
 expect crystals-one 0 'Gayer2008' -- crystals mgo:ln
 expect crystals-alias-ci 0 'KTiOPO4' -- crystals ppktp
+expect crystals-qpm-default 0 'QPM default  Fradkin1999: .*46\.22' -- crystals KTP
 expect crystals-unknown 1 "unknown crystal 'unobtainium'" -- crystals unobtainium
 expect index-table 0 'group index' -- index --crystal MgO:LN --wavelength 1064nm --temp 40
 expect index-bare-number 2 'has no unit.*1064nm' -- index --crystal MgO:LN --wavelength 1064
@@ -109,7 +110,7 @@ json_has angle-json-sets "sets.2.solutions.0.theta_deg" -- angle --crystal BBO -
 
 expect tol-qpm 0 'temperature +10\.[0-9]+ C' -- tolerance --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --length 20mm
 expect tol-bbo 0 'angle theta' -- tolerance --crystal BBO --fundamental 1064nm --type I --length 10mm
-expect tol-ncpm 0 'noncritical' -- tolerance --crystal LBO --fundamental 1064nm --dispersion Kato1994 --type I --theta 90 --temp 163.7 --length 10mm
+expect tol-ncpm 0 'noncritical' -- tolerance --crystal LBO --fundamental 1064nm --dispersion Kato1994 --type I --theta 90 --temp 149.15 --length 10mm
 expect tol-curve 0 '^temperature_C,sinc2' -- tolerance --crystal MgO:LN --fundamental 1064nm --length 10mm --curve temperature
 expect tol-no-length 2 '--length is required' -- tolerance --crystal MgO:LN --fundamental 1064nm
 expect tol-bad-curve 2 "must be one of" -- tolerance --crystal MgO:LN --fundamental 1064nm --length 1cm --curve colour
