@@ -157,18 +157,6 @@ const dk_crystal *dk_db_find(const dk_db *db, const char *name);
 const dk_dispersion_set *dk_crystal_find_set(const dk_crystal *c,
                                              const char *name);
 
-typedef enum dk_set_use { DK_USE_ANGLE, DK_USE_QPM } dk_set_use;
-
-/*
- * dk_crystal_default_set:
- * The set to use by default for @use and why: @reason (may be NULL) gets
- * a one-line reason, never NULL: the file's stated reason, or "first set
- * in the file".
- */
-const dk_dispersion_set *dk_crystal_default_set(const dk_crystal *c,
-                                                dk_set_use use,
-                                                const char **reason);
-
 /* The labels of the principal axes of @c's class: "oe", "XYZ" or "n". */
 const char *dk_crystal_axis_labels(const dk_crystal *c);
 

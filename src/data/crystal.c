@@ -200,16 +200,6 @@ dk_crystal_find_set(const dk_crystal *c, const char *name)
     return NULL;
 }
 
-const dk_dispersion_set *
-dk_crystal_default_set(const dk_crystal *c, dk_set_use use,
-                       const char **reason)
-{
-    (void)use;
-    if (reason)
-        *reason = "first set in the file";
-    return &c->sets[0];
-}
-
 const char *
 dk_crystal_axis_labels(const dk_crystal *c)
 {
