@@ -329,8 +329,9 @@ double dk_plot_per_cm_to_um(double per_cm, void *params);
 
 /* Where the legend goes. AUTO: an inside corner, or a place along the
  * edges or inside, that covers no line, marker or label; when there is
- * none, outside on the right if that leaves half the width, else the
- * inside place that covers least (on a light backing). */
+ * none, outside on the right if that leaves half the width, else below
+ * the axes if it takes at most 35 % of the height, else the inside place
+ * that covers least (on a light backing). */
 typedef enum dk_plot_legend {
     DK_PLOT_LEGEND_AUTO = 0,
     DK_PLOT_LEGEND_NONE,
@@ -338,7 +339,8 @@ typedef enum dk_plot_legend {
     DK_PLOT_LEGEND_UPPER_LEFT,
     DK_PLOT_LEGEND_LOWER_RIGHT,
     DK_PLOT_LEGEND_LOWER_LEFT,
-    DK_PLOT_LEGEND_OUTSIDE      /* right of the axes (and colour bar) */
+    DK_PLOT_LEGEND_OUTSIDE      /* right of the axes (and colour bar), or
+                                   below them when the right has no room */
 } dk_plot_legend;
 
 /* Place the legend (listing labelled series, bands, regions, contours,

@@ -31,7 +31,7 @@
  *
  * The box: the page less an outer pad, the title, the tick labels, the
  * axis labels, the colour bar with its labels, and room for a legend
- * outside on the right when one is asked for. Ticks and box depend on
+ * outside (on the right or below) when one is asked for. Ticks and box depend on
  * each other through the label sizes, so the two are iterated (labels
  * change by whole ticks, so this settles). All lengths are multiples of
  * the type size f.
@@ -571,7 +571,7 @@ place_box(const dk_plot *p, PangoContext *ctx, plot_layout *L, sizes *S,
     L->ax_y = (L->has_top ? 4 : 1) * f + (p->title ? 2 * f : 0);
     L->ax_w = L->page_w - L->ax_x - (L->has_map ? 8 : 1.5) * f -
               L->reserve_right;
-    L->ax_h = L->page_h - L->ax_y - 4 * f;
+    L->ax_h = L->page_h - L->ax_y - 4 * f - L->reserve_bottom;
     for (int pass = 0; pass < LAYOUT_PASSES; pass++) {
         if (L->ax_w < 3 * f || L->ax_h < 3 * f)
             break;
@@ -594,7 +594,7 @@ place_box(const dk_plot *p, PangoContext *ctx, plot_layout *L, sizes *S,
         left = fmax(left, PAD * f + oh_l);
         double bottom = PAD * f +
                         (S->xl_h > 0 ? S->xl_h + LABEL_GAP * f : 0) +
-                        L->x.label_h + gap;
+                        L->x.label_h + gap + L->reserve_bottom;
         double top = PAD * f + (S->title_h > 0 ? S->title_h + TITLE_GAP * f
                                                : 0);
         if (L->has_top) {

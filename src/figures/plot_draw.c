@@ -249,10 +249,11 @@ draw_mark(draw *d, int shape, double x, double y, const double rgb[3])
 }
 
 /* Markers every MARK_SPACING em along the part of the line inside the
- * axes, starting at a phase of its own. */
+ * axes, starting at a phase of its own; none on the parts outside the
+ * fitted range (their places are kept, so the spacing stays even). */
 static void
-series_marks(draw *d, size_t k, const double *x, const double *y, size_t n,
-             const plot_style *st)
+series_marks(draw *d, size_t k, const double *x, const double *y,
+             const unsigned char *flags, size_t n, const plot_style *st)
 {
     if (st->marker == PLOT_MARK_NONE)
         return;
@@ -269,10 +270,13 @@ series_marks(draw *d, size_t k, const double *x, const double *y, size_t n,
             !plot_clip_segment(box, &ax, &ay, &bx, &by))
             continue;
         double len = hypot(bx - ax, by - ay);
+        int out = flags && ((flags[i - 1] | flags[i]) &
+                            DK_PLOT_FLAG_OUTSIDE_FIT);
         while (run + len >= next) {
             double t = len > 0 ? (next - run) / len : 0;
-            draw_mark(d, st->marker, ax + t * (bx - ax), ay + t * (by - ay),
-                      st->rgb);
+            if (!out)
+                draw_mark(d, st->marker, ax + t * (bx - ax),
+                          ay + t * (by - ay), st->rgb);
             next += spacing;
         }
         run += len;
@@ -309,7 +313,7 @@ draw_series(draw *d)
         path_polyline(d, x, y, s->flags, s->n, s->flags ? 0 : -1);
         set_line_style(d, &st, 1);
         cairo_stroke(d->cr);
-        series_marks(d, k, x, y, s->n, &st);
+        series_marks(d, k, x, y, s->flags, s->n, &st);
         free(x);
         free(y);
     }

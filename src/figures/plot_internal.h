@@ -278,7 +278,8 @@ typedef struct plot_layout {
     plot_axis z;                        /* colour bar */
     double zlo, zhi;
     double cb_x, cb_w;                  /* colour bar box (y as axes) */
-    double reserve_right;               /* room kept for an outside legend */
+    double reserve_right;               /* room kept for an outside legend, */
+    double reserve_bottom;              /* on the right or below */
     char *ylabel, *zlabel;              /* axis labels with "(×10^k)" */
 
     plot_text *texts;                   /* every text on the page */

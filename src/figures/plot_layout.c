@@ -5,10 +5,11 @@
  * (plot_draw.c) only renders what is decided here, so what the tests
  * measure here is what the page shows.
  *
- * The legend goes outside, on the right, when asked to, or (AUTO) when no
- * place inside the axes is free of data and the axes keep at least 50 %
- * of the page width; the axes are then laid out again with that room
- * kept free.
+ * The legend goes outside when asked to, or (AUTO) when no place inside
+ * the axes is free of data: on the right when the axes keep at least
+ * half the page width, else below the axes when it takes at most 35 % of
+ * the page height; the axes are then laid out again with that room kept
+ * free. When neither fits, it stays inside where it covers least.
  */
 #include <math.h>
 #include <stdlib.h>
@@ -18,7 +19,9 @@
 
 #define OUTSIDE_GAP 0.8     /* axes (or colour bar text) to legend, em */
 #define OUTSIDE_MAX 0.5     /* most of the page width an outside legend
-                               may take */
+                               may take on the right */
+#define OUTSIDE_MAX_BELOW 0.35 /* most of the page height it may take
+                                  below */
 
 /* Forget what the axes and placement added, keeping the legend items. */
 static void
@@ -72,20 +75,29 @@ compute(const dk_plot *p, PangoContext *ctx, plot_layout *L, dk_error *err)
     double lw = 0, lh = 0;
     if (plot_place_legend_items(p, ctx, L, &lw, &lh))
         return dk_error_set(err, DK_ENOMEM, "out of memory for the legend");
+    double f = p->font_pt;
     double page_w = p->width_mm * PLOT_PT_PER_MM;
-    double reserve = lw + OUTSIDE_GAP * p->font_pt;
-    int fits = L->nitems > 0 && reserve <= OUTSIDE_MAX * page_w;
+    double page_h = p->height_mm * PLOT_PT_PER_MM;
+    double right = lw + OUTSIDE_GAP * f, below = lh + OUTSIDE_GAP * f;
+    int fits_right = L->nitems > 0 && right <= OUTSIDE_MAX * page_w;
+    int fits_below = L->nitems > 0 && lw <= page_w - f &&
+                     below <= OUTSIDE_MAX_BELOW * page_h;
     int want = 0;
-    if (p->legend == DK_PLOT_LEGEND_OUTSIDE && L->nitems > 0)
-        L->reserve_right = reserve;
-    dk_status s = lay_out(p, ctx, L,
-                          p->legend == DK_PLOT_LEGEND_AUTO && fits, &want,
-                          err);
-    if (!s && want) {
-        L->reserve_right = reserve;
-        s = lay_out(p, ctx, L, 0, &want, err);
+    if (p->legend == DK_PLOT_LEGEND_OUTSIDE) {
+        if (fits_right)
+            L->reserve_right = right;
+        else if (fits_below)
+            L->reserve_bottom = below;
     }
-    return s;
+    dk_status s = lay_out(p, ctx, L, p->legend == DK_PLOT_LEGEND_AUTO, &want,
+                          err);
+    if (s || !want)
+        return s;
+    if (fits_right)
+        L->reserve_right = right;
+    else if (fits_below)
+        L->reserve_bottom = below;
+    return lay_out(p, ctx, L, 0, &want, err);
 }
 
 dk_status

@@ -16,8 +16,9 @@
  *    outwards);
  *  - the legend: the four inside corners, then points along the top and
  *    bottom, then along the sides, then inside. With AUTO, when every
- *    inside place covers a line or a text, the legend goes outside on the
- *    right (plot_layout.c), if there is room.
+ *    inside place covers a line or a text (or the legend is larger than
+ *    the axes), the legend goes outside, on the right or below
+ *    (plot_layout.c), if there is room.
  * Marker labels are placed first, then branch labels, then the legend,
  * each avoiding what was placed before it. The legend gets a light
  * backing over a map or when it had to cover a line.
@@ -483,9 +484,15 @@ place_legend(const dk_plot *p, PangoContext *ctx, plot_layout *L,
     if (L->nitems == 0 || p->legend == DK_PLOT_LEGEND_NONE)
         return 0;
     double f = L->f, w = L->legend_box[2], h = L->legend_box[3];
-    if (L->reserve_right > 0) {
-        /* Outside on the right, level with the top of the axes. */
+    if (L->reserve_right > 0 || L->reserve_bottom > 0) {
+        /* Outside: on the right, level with the top of the axes; or
+         * below, centred under the axes and kept on the page. */
         double x = L->page_w - 0.5 * f - w, y = L->ax_y;
+        if (L->reserve_bottom > 0) {
+            y = L->page_h - 0.5 * f - h;
+            x = fmin(fmax(L->ax_x + (L->ax_w - w) / 2, 0.5 * f),
+                     L->page_w - 0.5 * f - w);
+        }
         if (y + h > L->page_h)
             return 0;
         L->legend_where = PLOT_LEGEND_OUTSIDE;
