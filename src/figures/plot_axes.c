@@ -688,18 +688,14 @@ axis_texts(const dk_plot *p, PangoContext *ctx, plot_layout *L,
         if (plot_layout_add_text(L, &t) < 0)
             return -1;
     }
-    double top_y = L->ax_y;
-    if (L->has_top) {
-        top_y = L->ax_y - gap - L->top.label_h;
-        if (p->toplabel) {
-            t = text_at(ctx, PLOT_TEXT_TOPLABEL, p->toplabel, S->tl, cx,
-                        top_y - LABEL_GAP * f * 0.6, H_CENTER, V_BOTTOM, 0);
-            t.x = clamp_centre(t.x + t.w / 2, t.w, pad, L->page_w - pad) -
-                  t.w / 2;
-            top_y = t.y;
-            if (plot_layout_add_text(L, &t) < 0)
-                return -1;
-        }
+    if (L->has_top && p->toplabel) {
+        t = text_at(ctx, PLOT_TEXT_TOPLABEL, p->toplabel, S->tl, cx,
+                    L->ax_y - gap - L->top.label_h - LABEL_GAP * f * 0.6,
+                    H_CENTER, V_BOTTOM, 0);
+        t.x = clamp_centre(t.x + t.w / 2, t.w, pad, L->page_w - pad) -
+              t.w / 2;
+        if (plot_layout_add_text(L, &t) < 0)
+            return -1;
     }
     if (L->ylabel) {
         t = text_at(ctx, PLOT_TEXT_YLABEL, L->ylabel, S->yl,
