@@ -15,16 +15,31 @@
  * with inward ticks on all four sides (outward on two over a map), 1-2-5
  * tick steps with minor ticks, a true minus sign, y and colour-bar
  * values of magnitude ≥ 1e5 or < 1e-3 labelled in units of 10^k with
- * "×10^k" once at the axis end, no grid and no title; five line colours
- * chosen to stay apart for protan, deutan and tritan viewers; maps use
- * the "afterglow" colour scale (dk_colormap_rgb), whose CIELAB lightness
- * rises monotonically.
+ * "(×10^k)" at the end of the axis label, no grid, a title only when one
+ * is set. Lines cycle five colours chosen to stay apart for protan,
+ * deutan and tritan viewers together with four dash patterns and five
+ * marker shapes, so that the first 20 series differ in greyscale too;
+ * maps use the "afterglow" colour scale (dk_colormap_rgb), whose CIELAB
+ * lightness rises monotonically.
+ *
+ * Nothing overlaps: the legend, marker labels and branch labels are placed
+ * where they cover no line, marker or other text (the legend goes outside
+ * on the right when no such place is left inside); tick labels that would
+ * touch a neighbour or the page edge are thinned; axis labels longer than
+ * the page are set smaller; the layout is checked by the tests box by box.
  *
  * Output is deterministic: the same figure gives the same bytes (the
  * PDF carries no creation date). Files are written atomically: a
  * temporary file beside the target is renamed over it only when complete.
  *
- * References (methods in src/plot_*.c):
+ * SVG text: cairo's SVG surface (1.16 here, and 1.18) always writes each
+ * glyph as an outline (a <symbol> with a <path>, placed with <use>); it
+ * has no option to write <text> elements, and cairo_tag_begin() marks
+ * structure only in PDF. So SVG text is drawn exactly but cannot be
+ * selected or edited as text; use PDF (real text, fonts embedded) where
+ * that matters.
+ *
+ * References (methods in src/figures/plot_*.c):
  *   P. Kovesi, "Good colour maps: how to design them", arXiv:1509.03700
  *   (2015) - the colour scale.
  *   IEC 61966-2-1:1999, sRGB; CIE 15:2004, Colorimetry, 3rd ed. - colour
@@ -95,9 +110,12 @@ typedef struct dk_plot dk_plot;
  *        DK_PLOT_MAX_MM]
  * @plot: out, a new empty figure; free with dk_plot_free()
  *
- * Defaults: auto ranges, legend placed automatically, PNG at 300 dpi,
- * type size 8 pt up to 180 mm width and growing with the width beyond
- * (14.5 pt on a 254 mm slide).
+ * Defaults: auto ranges, linear axes, no title, legend placed
+ * automatically, PNG at 300 dpi, and a type size that follows the
+ * figure: 8 pt from 85 to 180 mm width (journal figures are printed at
+ * 7-9 pt), growing beyond to 18 pt on a 254 mm slide (and on, up to 48
+ * pt), and shrinking below 85 mm with the smaller of width/85 mm and
+ * height/64 mm, down to 5 pt (a 40 x 30 mm figure gets 5 pt).
  *
  * Returns: DK_OK; DK_EINVAL for a size out of range; DK_ENOMEM.
  */
@@ -135,9 +153,10 @@ dk_status dk_plot_set_yrange(dk_plot *plot, double lo, double hi,
 
 /*
  * dk_plot_set_font_size_pt:
- * @size_pt: type size for all text in pt, in [4, 48]
+ * @size_pt: type size for all text in pt, in [4, 48]; replaces the
+ *        default that follows the figure size (see dk_plot_new())
  *
- * Line widths and tick lengths scale with it.
+ * Line widths, tick lengths, markers and the legend scale with it.
  * Returns: DK_OK; DK_EINVAL.
  */
 dk_status dk_plot_set_font_size_pt(dk_plot *plot, double size_pt,
@@ -152,14 +171,59 @@ dk_status dk_plot_set_font_size_pt(dk_plot *plot, double size_pt,
  * @label: legend text, pango markup (copied); NULL leaves the series out
  *        of the legend
  *
- * Series take the line colours in turn; from the sixth series on, the
- * colours repeat with dashes.
+ * Series take colours, dash patterns and markers in turn (see the top of
+ * this file); the first is a plain solid line.
  *
  * Returns: DK_OK; DK_EINVAL for NULL data, n = 0, no finite point or
  * malformed markup; DK_ENOMEM.
  */
 dk_status dk_plot_add_line(dk_plot *plot, const double *x, const double *y,
                            size_t n, const char *label, dk_error *err);
+
+/* Per-point flags for dk_plot_add_line_flagged() and dk_plot_set_map_flags(). */
+#define DK_PLOT_FLAG_OUTSIDE_FIT 0x01u     /* outside the data set's fitted
+                                              wavelength or temperature
+                                              range */
+#define DK_PLOT_FLAG_NOT_TRANSPARENT 0x02u /* outside the crystal's
+                                              transparency (maps) */
+
+/*
+ * dk_plot_add_line_flagged:
+ * As dk_plot_add_line(), with a flag per point. A segment with a point
+ * flagged DK_PLOT_FLAG_OUTSIDE_FIT at either end is drawn lighter,
+ * thinner and dotted, and the legend gains the entry "outside the data
+ * set's fitted range" (once per figure).
+ * @flags: @n values, each 0 or DK_PLOT_FLAG_OUTSIDE_FIT (copied); NULL is
+ *        the same as dk_plot_add_line()
+ *
+ * Returns: as dk_plot_add_line(); DK_EINVAL also for an unknown flag bit.
+ */
+dk_status dk_plot_add_line_flagged(dk_plot *plot, const double *x,
+                                   const double *y,
+                                   const unsigned char *flags, size_t n,
+                                   const char *label, dk_error *err);
+
+/* The number of lines added so far; line i (from 0, in the order added)
+ * is the @series argument of dk_plot_label_branch(). */
+size_t dk_plot_series_count(const dk_plot *plot);
+
+/*
+ * dk_plot_label_branch:
+ * A label written on the figure beside one branch of a line, in the
+ * line's colour, e.g. "signal" and "idler" on the two branches of a
+ * temperature-tuning curve. Branches are the pieces of a line between its
+ * non-finite points, counted from 0 in the order of the points. The label
+ * is placed beside a point of the branch where it covers no line and no
+ * other text; a branch with no point inside the axes gets no label.
+ * @series: the line, in [0, dk_plot_series_count())
+ * @branch: ≥ 0; a branch the line does not have is left unlabelled
+ * @markup: pango markup (copied), non-empty
+ *
+ * Returns: DK_OK; DK_EINVAL (no such line, negative branch, empty or
+ * malformed markup); DK_ENOMEM.
+ */
+dk_status dk_plot_label_branch(dk_plot *plot, size_t series, int branch,
+                               const char *markup, dk_error *err);
 
 /*
  * dk_plot_add_marker:
@@ -185,6 +249,55 @@ dk_status dk_plot_add_marker(dk_plot *plot, double x, double y,
  */
 dk_status dk_plot_add_band(dk_plot *plot, double x0, double x1,
                            const char *label, dk_error *err);
+
+/* An axis, for dk_plot_add_region(). */
+typedef enum dk_plot_axis {
+    DK_PLOT_X_AXIS = 0,
+    DK_PLOT_Y_AXIS
+} dk_plot_axis;
+
+/*
+ * dk_plot_add_region:
+ * A grey, cross-hatched interval of @axis over the full other extent, for
+ * values where nothing can be had, e.g. wavelengths outside the crystal's
+ * transparency ("not transparent"). Drawn over a map and under lines; it
+ * never widens an automatic range.
+ * @lo, @hi: the interval in data units, lo < hi, not NaN; −INFINITY and
+ *        INFINITY reach the axis end
+ * @label: legend text, pango markup (copied), or NULL
+ *
+ * Returns: DK_OK; DK_EINVAL (bad axis or interval, malformed markup);
+ * DK_ENOMEM.
+ */
+dk_status dk_plot_add_region(dk_plot *plot, dk_plot_axis axis, double lo,
+                             double hi, const char *label, dk_error *err);
+
+/*
+ * dk_plot_set_title:
+ * @markup: a title above the figure, pango markup (copied), set at 1.15
+ *        times the type size; NULL or "" removes it. Journals put titles
+ *        in the caption, so figures have none by default.
+ *
+ * Returns: DK_OK; DK_EINVAL (malformed markup); DK_ENOMEM.
+ */
+dk_status dk_plot_set_title(dk_plot *plot, const char *markup,
+                            dk_error *err);
+
+/*
+ * dk_plot_set_log:
+ * Logarithmic x and/or y axes (nonzero for logarithmic). Points with a
+ * value ≤ 0 on a logarithmic axis are left out and break the line there;
+ * ticks sit at the decades (10^k labels beyond 0.001-10^4) or, over less
+ * than two decades, at 1, 2 and 5 times them. The top axis and the colour
+ * bar stay linear.
+ *
+ * Returns: DK_OK; DK_EINVAL when a range already set reaches zero or
+ * below on an axis made logarithmic (nothing is changed).
+ * dk_plot_write() fails with DK_EINVAL when a logarithmic axis has no
+ * positive data and no range.
+ */
+dk_status dk_plot_set_log(dk_plot *plot, int x_log, int y_log,
+                          dk_error *err);
 
 /* A monotonic map between the bottom axis and the top axis. */
 typedef double (*dk_plot_transform)(double v, void *params);
@@ -214,19 +327,25 @@ dk_status dk_plot_set_top_axis(dk_plot *plot, dk_plot_transform to_top,
 double dk_plot_um_to_per_cm(double um, void *params);
 double dk_plot_per_cm_to_um(double per_cm, void *params);
 
-/* Where the legend goes. AUTO picks the inside corner (or, when all four
- * cover data, the middle of a side) that covers the least data. */
+/* Where the legend goes. AUTO: an inside corner, or a place along the
+ * edges or inside, that covers no line, marker or label; when there is
+ * none, outside on the right if that leaves half the width, else below
+ * the axes if it takes at most 35 % of the height, else the inside place
+ * that covers least (on a light backing). */
 typedef enum dk_plot_legend {
     DK_PLOT_LEGEND_AUTO = 0,
     DK_PLOT_LEGEND_NONE,
     DK_PLOT_LEGEND_UPPER_RIGHT,
     DK_PLOT_LEGEND_UPPER_LEFT,
     DK_PLOT_LEGEND_LOWER_RIGHT,
-    DK_PLOT_LEGEND_LOWER_LEFT
+    DK_PLOT_LEGEND_LOWER_LEFT,
+    DK_PLOT_LEGEND_OUTSIDE      /* right of the axes (and colour bar), or
+                                   below them when the right has no room */
 } dk_plot_legend;
 
-/* Place the legend (listing labelled series, bands and contours). A
- * legend that does not fit inside the axes box is left out. */
+/* Place the legend (listing labelled series, bands, regions, contours,
+ * and a note for flagged points). A legend that does not fit inside the
+ * axes box (corners) or the page height (outside) is left out. */
 void dk_plot_set_legend(dk_plot *plot, dk_plot_legend where);
 
 /*
@@ -262,6 +381,24 @@ dk_status dk_plot_set_zrange(dk_plot *plot, double lo, double hi,
                              dk_error *err);
 
 /*
+ * dk_plot_set_map_flags:
+ * Flags for the grid points of the map (the same layout as its z); each
+ * pixel takes the flag of its nearest grid point. DK_PLOT_FLAG_OUTSIDE_FIT
+ * keeps the colour under a white hatch; DK_PLOT_FLAG_NOT_TRANSPARENT
+ * draws the cell cross-hatched grey, as dk_plot_add_region(). The legend
+ * names each kind present. NaN cells of z are drawn light grey with a
+ * single hatch whether flagged or not.
+ * @flags: nx·ny values (copied), or NULL to drop flags
+ * @blank_label: legend text for the NaN cells, pango markup (copied),
+ *        e.g. "no phase matching"; NULL for no entry
+ *
+ * Returns: DK_OK; DK_EINVAL (no map set, unknown flag bit, malformed
+ * markup); DK_ENOMEM.
+ */
+dk_status dk_plot_set_map_flags(dk_plot *plot, const unsigned char *flags,
+                                const char *blank_label, dk_error *err);
+
+/*
  * dk_plot_add_contour:
  * A contour line of the map at @level (finite, in z units), traced by
  * marching squares on the grid with linear interpolation along cell edges,
@@ -278,7 +415,9 @@ dk_status dk_plot_add_contour(dk_plot *plot, double level,
 
 /*
  * dk_plot_set_png_dpi:
- * @dpi: raster resolution for .png output, in [36, 1200]; default 300
+ * @dpi: raster resolution for .png output, in [36, 1200]; default 300.
+ *        The PNG records it (a pHYs chunk in pixels per metre), so that
+ *        programs that read it show the figure at its size in mm.
  *
  * Returns: DK_OK; DK_EINVAL.
  */
@@ -300,7 +439,8 @@ dk_status dk_plot_set_png_dpi(dk_plot *plot, double dpi, dk_error *err);
  *
  * Returns: DK_OK; DK_EINVAL for an unknown extension (the message lists
  * DK_PLOT_FORMATS), for a figure with neither data nor explicit ranges,
- * or one too small for its labels; DK_EDOM when the top-axis transform is
+ * a logarithmic axis without positive data, or one too small for its
+ * labels; DK_EDOM when the top-axis transform is
  * not finite and monotonic over the x range; DK_EIO when the file cannot
  * be created, written or renamed (the message names @path); DK_ENOMEM.
  */

@@ -5,14 +5,17 @@
  * Everything the caller hands in is copied, so the caller's arrays may be
  * freed at once. Label markup is parsed with pango when it is set, so a
  * bad label fails where it was given rather than at drawing time.
- * Figure sizes are mm, in [DK_PLOT_MIN_MM, DK_PLOT_MAX_MM]; the default
- * type size is 8 pt up to 180 mm width (journal figures are printed at
- * 7-9 pt, common practice) and grows linearly beyond, to 14.5 pt on a
- * 254 mm slide (seen from a few metres, common practice).
+ * Figure sizes are mm, in [DK_PLOT_MIN_MM, DK_PLOT_MAX_MM]. The default
+ * type size follows the figure: 8 pt from 85 to 180 mm width (journal
+ * figures are printed at 7-9 pt, common practice); wider, it grows by
+ * 10 pt per 74 mm, to 18 pt on a 254 mm slide (slide text is read from a
+ * few metres and is set at 18 pt or more, common practice); smaller, it
+ * shrinks with the smaller of width/85 mm and height/64 mm down to 5 pt
+ * (the smallest type journals accept is 5-6 pt, common practice).
  *
- * The drawing lives in plot_layout.c and plot_draw.c, the output in
- * plot_write.c, ticks in plot_ticks.c, colour in plot_color.c, contours
- * in plot_contour.c.
+ * The layout lives in plot_layout.c (with plot_axes.c and plot_place.c),
+ * the drawing in plot_draw.c, the output in plot_write.c; see
+ * plot_internal.h for how the files depend on each other.
  *
  * References: see deltak/plot.h.
  */
@@ -27,7 +30,10 @@
 #define DEFAULT_DPI 300.0
 #define DEFAULT_FONT_PT 8.0
 #define FONT_GROWS_FROM_MM 180.0   /* wider figures get larger type, */
-#define FONT_GROWTH_MM 91.0        /* +8 pt per 91 mm: 14.5 pt at 254 mm */
+#define FONT_GROWTH_PT_PER_MM (10.0 / 74.0) /* 18 pt at 254 mm */
+#define FONT_SHRINKS_BELOW_W 85.0  /* smaller figures smaller type, */
+#define FONT_SHRINKS_BELOW_H 64.0
+#define MIN_DEFAULT_FONT_PT 5.0
 #define MIN_FONT_PT 4.0
 #define MAX_FONT_PT 48.0
 #define MIN_DPI 36.0
@@ -141,8 +147,11 @@ dk_plot_new(double width_mm, double height_mm, dk_plot **plot, dk_error *err)
     p->height_mm = height_mm;
     p->font_pt = DEFAULT_FONT_PT;
     if (width_mm > FONT_GROWS_FROM_MM)
-        p->font_pt = DEFAULT_FONT_PT *
-                     (1 + (width_mm - FONT_GROWS_FROM_MM) / FONT_GROWTH_MM);
+        p->font_pt += (width_mm - FONT_GROWS_FROM_MM) * FONT_GROWTH_PT_PER_MM;
+    double shrink = fmin(width_mm / FONT_SHRINKS_BELOW_W,
+                         height_mm / FONT_SHRINKS_BELOW_H);
+    if (shrink < 1)
+        p->font_pt = fmax(MIN_DEFAULT_FONT_PT, DEFAULT_FONT_PT * shrink);
     if (p->font_pt > MAX_FONT_PT)
         p->font_pt = MAX_FONT_PT;
     p->dpi = DEFAULT_DPI;
@@ -159,7 +168,9 @@ map_free(plot_map *m)
     if (!m)
         return;
     free(m->z);
+    free(m->flags);
     free(m->label);
+    free(m->blank_label);
     free(m);
 }
 
@@ -171,9 +182,11 @@ dk_plot_free(dk_plot *p)
     free(p->xlabel);
     free(p->ylabel);
     free(p->toplabel);
+    free(p->title);
     for (size_t i = 0; i < p->nseries; i++) {
         free(p->series[i].x);
         free(p->series[i].y);
+        free(p->series[i].flags);
         free(p->series[i].label);
     }
     free(p->series);
@@ -183,6 +196,12 @@ dk_plot_free(dk_plot *p)
     for (size_t i = 0; i < p->nbands; i++)
         free(p->bands[i].label);
     free(p->bands);
+    for (size_t i = 0; i < p->nregions; i++)
+        free(p->regions[i].label);
+    free(p->regions);
+    for (size_t i = 0; i < p->nbranches; i++)
+        free(p->branches[i].label);
+    free(p->branches);
     for (int i = 0; i < p->ncontours; i++)
         free(p->contours[i].label);
     map_free(p->map);
@@ -241,6 +260,38 @@ dk_plot_set_ylabel(dk_plot *p, const char *markup, dk_error *err)
     return markup_replace(&p->ylabel, markup, err);
 }
 
+dk_status
+dk_plot_set_title(dk_plot *p, const char *markup, dk_error *err)
+{
+    return markup_replace(&p->title, markup, err);
+}
+
+/* A range that a logarithmic axis cannot show. */
+static dk_status
+log_range_check(const char *what, int log, double lo, dk_error *err)
+{
+    if (log && !isnan(lo) && !(lo > 0))
+        return dk_error_set(err, DK_EINVAL,
+                            "%s range from %g cannot be shown on a "
+                            "logarithmic axis: give a range above zero or "
+                            "use a linear axis",
+                            what, lo);
+    return DK_OK;
+}
+
+dk_status
+dk_plot_set_log(dk_plot *p, int x_log, int y_log, dk_error *err)
+{
+    dk_status s = log_range_check("x", x_log, p->xlo, err);
+    if (!s)
+        s = log_range_check("y", y_log, p->ylo, err);
+    if (s)
+        return s;
+    p->xlog = x_log != 0;
+    p->ylog = y_log != 0;
+    return DK_OK;
+}
+
 /* A range: both NaN (automatic), or finite with lo < hi. */
 static dk_status
 range_check(const char *what, double lo, double hi, dk_error *err)
@@ -259,6 +310,8 @@ dk_status
 dk_plot_set_xrange(dk_plot *p, double lo, double hi, dk_error *err)
 {
     dk_status s = range_check("x", lo, hi, err);
+    if (!s)
+        s = log_range_check("x", p->xlog, lo, err);
     if (s)
         return s;
     p->xlo = lo;
@@ -270,6 +323,8 @@ dk_status
 dk_plot_set_yrange(dk_plot *p, double lo, double hi, dk_error *err)
 {
     dk_status s = range_check("y", lo, hi, err);
+    if (!s)
+        s = log_range_check("y", p->ylog, lo, err);
     if (s)
         return s;
     p->ylo = lo;
@@ -324,16 +379,23 @@ grow(void *arr, size_t *cap, size_t n, size_t elem)
 }
 
 dk_status
-dk_plot_add_line(dk_plot *p, const double *x, const double *y, size_t n,
-                 const char *label, dk_error *err)
+dk_plot_add_line_flagged(dk_plot *p, const double *x, const double *y,
+                         const unsigned char *flags, size_t n,
+                         const char *label, dk_error *err)
 {
     const char *name = label ? label : "(unlabelled)";
     if (!x || !y || n == 0)
         return dk_error_set(err, DK_EINVAL, "empty series '%s': no points",
                             name);
     size_t finite = 0;
-    for (size_t i = 0; i < n; i++)
+    for (size_t i = 0; i < n; i++) {
         finite += isfinite(x[i]) && isfinite(y[i]);
+        if (flags && (flags[i] & ~DK_PLOT_FLAG_OUTSIDE_FIT))
+            return dk_error_set(err, DK_EINVAL,
+                                "series '%s': point %zu has flag 0x%x; a "
+                                "line takes only DK_PLOT_FLAG_OUTSIDE_FIT",
+                                name, i, (unsigned)flags[i]);
+    }
     if (finite == 0)
         return dk_error_set(err, DK_EINVAL,
                             "series '%s' has no finite point", name);
@@ -342,20 +404,66 @@ dk_plot_add_line(dk_plot *p, const double *x, const double *y, size_t n,
     if (s)
         return s;
     double *cx = malloc(n * sizeof *cx), *cy = malloc(n * sizeof *cy);
+    unsigned char *cf = flags ? malloc(n) : NULL;
     plot_series *arr = grow(p->series, &p->capseries, p->nseries,
                             sizeof *p->series);
     if (arr)
         p->series = arr;
-    if (!cx || !cy || !arr) {
+    if (!cx || !cy || !arr || (flags && !cf)) {
         free(cx);
         free(cy);
+        free(cf);
         free(lab);
         return dk_error_set(err, DK_ENOMEM, "out of memory for series '%s'",
                             name);
     }
     memcpy(cx, x, n * sizeof *cx);
     memcpy(cy, y, n * sizeof *cy);
-    p->series[p->nseries++] = (plot_series){cx, cy, n, lab};
+    if (cf)
+        memcpy(cf, flags, n);
+    p->series[p->nseries++] = (plot_series){cx, cy, n, lab, cf};
+    return DK_OK;
+}
+
+dk_status
+dk_plot_add_line(dk_plot *p, const double *x, const double *y, size_t n,
+                 const char *label, dk_error *err)
+{
+    return dk_plot_add_line_flagged(p, x, y, NULL, n, label, err);
+}
+
+size_t
+dk_plot_series_count(const dk_plot *p)
+{
+    return p->nseries;
+}
+
+dk_status
+dk_plot_label_branch(dk_plot *p, size_t series, int branch,
+                     const char *markup, dk_error *err)
+{
+    if (series >= p->nseries)
+        return dk_error_set(err, DK_EINVAL,
+                            "no line %zu to label: the figure has %zu "
+                            "(counted from 0)",
+                            series, p->nseries);
+    if (branch < 0)
+        return dk_error_set(err, DK_EINVAL,
+                            "branch %d: branches count from 0", branch);
+    if (!markup || !*markup)
+        return dk_error_set(err, DK_EINVAL, "a branch label needs text");
+    char *lab;
+    dk_status s = markup_copy(markup, &lab, err);
+    if (s)
+        return s;
+    plot_branch_label *arr = grow(p->branches, &p->capbranches, p->nbranches,
+                                  sizeof *p->branches);
+    if (!arr) {
+        free(lab);
+        return dk_error_set(err, DK_ENOMEM, "out of memory for a label");
+    }
+    p->branches = arr;
+    p->branches[p->nbranches++] = (plot_branch_label){series, branch, lab};
     return DK_OK;
 }
 
@@ -401,6 +509,33 @@ dk_plot_add_band(dk_plot *p, double x0, double x1, const char *label,
     }
     p->bands = arr;
     p->bands[p->nbands++] = (plot_band){fmin(x0, x1), fmax(x0, x1), lab};
+    return DK_OK;
+}
+
+dk_status
+dk_plot_add_region(dk_plot *p, dk_plot_axis axis, double lo, double hi,
+                   const char *label, dk_error *err)
+{
+    if (axis != DK_PLOT_X_AXIS && axis != DK_PLOT_Y_AXIS)
+        return dk_error_set(err, DK_EINVAL, "region axis must be "
+                            "DK_PLOT_X_AXIS or DK_PLOT_Y_AXIS");
+    if (isnan(lo) || isnan(hi) || !(lo < hi))
+        return dk_error_set(err, DK_EINVAL,
+                            "region %g..%g must have low < high (infinite "
+                            "ends reach the axis end)",
+                            lo, hi);
+    char *lab;
+    dk_status s = markup_copy(label, &lab, err);
+    if (s)
+        return s;
+    plot_region *arr = grow(p->regions, &p->capregions, p->nregions,
+                            sizeof *p->regions);
+    if (!arr) {
+        free(lab);
+        return dk_error_set(err, DK_ENOMEM, "out of memory for a region");
+    }
+    p->regions = arr;
+    p->regions[p->nregions++] = (plot_region){axis, lo, hi, lab};
     return DK_OK;
 }
 
@@ -496,6 +631,40 @@ dk_plot_set_map(dk_plot *p, const double *z, int nx, int ny, double x0,
 }
 
 dk_status
+dk_plot_set_map_flags(dk_plot *p, const unsigned char *flags,
+                      const char *blank_label, dk_error *err)
+{
+    plot_map *m = p->map;
+    if (!m)
+        return dk_error_set(err, DK_EINVAL, "map flags need a map: call "
+                            "dk_plot_set_map() first");
+    size_t n = (size_t)m->nx * (size_t)m->ny;
+    const unsigned known = DK_PLOT_FLAG_OUTSIDE_FIT |
+                           DK_PLOT_FLAG_NOT_TRANSPARENT;
+    for (size_t i = 0; flags && i < n; i++)
+        if (flags[i] & ~known)
+            return dk_error_set(err, DK_EINVAL,
+                                "map point %zu has unknown flag 0x%x", i,
+                                (unsigned)flags[i]);
+    char *lab;
+    dk_status s = markup_copy(blank_label, &lab, err);
+    if (s)
+        return s;
+    unsigned char *c = NULL;
+    if (flags && !(c = malloc(n))) {
+        free(lab);
+        return dk_error_set(err, DK_ENOMEM, "out of memory for map flags");
+    }
+    if (c)
+        memcpy(c, flags, n);
+    free(m->flags);
+    free(m->blank_label);
+    m->flags = c;
+    m->blank_label = lab;
+    return DK_OK;
+}
+
+dk_status
 dk_plot_add_contour(dk_plot *p, double level, const char *label,
                     dk_error *err)
 {
@@ -526,5 +695,9 @@ dk_plot_data_to_pixel(const dk_plot *p, double x, double y, double *px,
     double scale = p->dpi / 72;
     *px = plot_x_pt(&L, x) * scale;
     *py = plot_y_pt(&L, y) * scale;
+    plot_layout_release(&L);
+    if (!(isfinite(*px) && isfinite(*py)))
+        return dk_error_set(err, DK_EINVAL, "point (%g, %g) has no place on "
+                            "a logarithmic axis", x, y);
     return DK_OK;
 }

@@ -14,6 +14,12 @@
  * true minus sign (U+2212), and m×10^k in markup when the step is ≥ 1e5
  * or < 1e-4.
  *
+ * Logarithmic axes: ticks at the decades, every first, second, third,
+ * fifth or tenth of them so that at most max_ticks fall inside; when
+ * fewer than two decades lie inside, at 1, 2 and 5 times the powers of
+ * ten (or, failing two of those, at linear 1-2-5 ticks). Labels are plain
+ * decimals from 0.001 up to 10^4 and 10^k beyond (common practice).
+ *
  * References:
  *   P. S. Heckbert, "Nice numbers for graph labels", in A. S. Glassner
  *   (ed.), Graphics Gems, Academic Press (1990), pp. 61-63.
@@ -129,4 +135,79 @@ plot_tick_label(double v, double step, char *buf, size_t size)
         return;
     }
     snprintf(buf + o, size - o, "%.*f", decimals_for(step), a);
+}
+
+/* Whole powers of ten k·stride within [a, b] (decade exponents). */
+static int
+decade_ticks(double a, double b, int stride, double *ticks, int max)
+{
+    int k0 = (int)ceil(a / stride - 1e-9), k1 = (int)floor(b / stride + 1e-9);
+    int n = 0;
+    for (int k = k0; k <= k1 && n < max; k++)
+        ticks[n++] = pow10i(k * stride);
+    return k1 - k0 + 1;
+}
+
+int
+plot_log_ticks(double lo, double hi, int max, double *ticks, int *n,
+               double *step_decades)
+{
+    double a = log10(lo), b = log10(hi);
+    static const int strides[] = {1, 2, 3, 5, 10, 20, 50, 100};
+    for (size_t i = 0; i < sizeof strides / sizeof strides[0]; i++) {
+        int count = decade_ticks(a, b, strides[i], ticks, DK_PLOT_MAX_TICKS);
+        if (count < 2)
+            break;
+        if (count <= max) {
+            *n = count;
+            *step_decades = strides[i];
+            return 0;
+        }
+    }
+    /* Less than two decades: 1, 2, 5 × 10^k, thinned to 1 and 5, then
+     * to the 1s. */
+    static const int sets[3][3] = {{1, 2, 5}, {1, 5, 0}, {1, 0, 0}};
+    for (int s = 0; s < 3; s++) {
+        int cnt = 0;
+        for (int k = (int)floor(a) - 1; k <= (int)ceil(b) + 1; k++)
+            for (int m = 0; m < 3 && sets[s][m]; m++) {
+                double v = sets[s][m] * pow10i(k);
+                if (v >= lo * (1 - 1e-9) && v <= hi * (1 + 1e-9) &&
+                    cnt < DK_PLOT_MAX_TICKS)
+                    ticks[cnt++] = v;
+            }
+        if (cnt >= 2 && cnt <= max) {
+            *n = cnt;
+            *step_decades = 0;
+            return 0;
+        }
+    }
+    double step;
+    dk_error err = {0};
+    if (dk_plot_nice_ticks(lo, hi, max, ticks, n, &step, &err))
+        return -1;
+    *step_decades = -step; /* negative: a linear step */
+    return 0;
+}
+
+void
+plot_log_tick_label(double v, char *buf, size_t size)
+{
+    if (v >= 1e-3 && v < 1e4) {
+        int k = (int)floor(log10(v) + 1e-9);
+        int d = k < 0 ? -k : 0;
+        double m = v / pow10i(k);
+        if (fabs(m - round(m)) > 1e-6) /* e.g. 0.25 on a short axis */
+            d++;
+        snprintf(buf, size, "%.*f", d, v);
+        return;
+    }
+    int k = (int)floor(log10(v) + 1e-9);
+    double m = v / pow10i(k);
+    const char *ksign = k < 0 ? "\xe2\x88\x92" : "";
+    if (fabs(m - 1) < 1e-6)
+        snprintf(buf, size, "10<sup>%s%d</sup>", ksign, abs(k));
+    else
+        snprintf(buf, size, "%.3g\xc3\x97" "10<sup>%s%d</sup>", m, ksign,
+                 abs(k));
 }

@@ -19,7 +19,9 @@
  * the SVG is built in memory and those ids are renumbered per document
  * before it is written; the map image inside is PNG, without time stamp. PDF
  * sizes are the page in pt; SVG gets the size in pt; PNG is
- * width_mm/25.4·dpi pixels wide, with the page scaled by dpi/72.
+ * width_mm/25.4·dpi pixels wide, with the page scaled by dpi/72, and is
+ * built in memory too so that its resolution can be recorded in a pHYs
+ * chunk (plot_png.c), which cairo does not write.
  *
  * References:
  *   IEEE Std 1003.1-2017 (POSIX), rename(): atomic replacement of the
@@ -148,6 +150,19 @@ svg_write_stable(const membuf *m, sink *s)
         i = done = j;
     }
     return sink_write(s, m->data + done, (unsigned)(m->len - done));
+}
+
+/* Write the PNG in @m to @s with its resolution recorded. */
+static cairo_status_t
+png_write_with_dpi(membuf *m, double dpi, sink *s)
+{
+    unsigned char room[32] = {0};
+    if (mem_write(m, room, sizeof room) != CAIRO_STATUS_SUCCESS)
+        return CAIRO_STATUS_NO_MEMORY;
+    m->len -= sizeof room; /* keep the room, not the bytes */
+    if (plot_png_set_dpi(m->data, &m->len, m->cap, dpi))
+        return CAIRO_STATUS_WRITE_ERROR;
+    return sink_write(s, m->data, (unsigned)m->len);
 }
 
 static int
@@ -305,7 +320,7 @@ render(const dk_plot *p, const plot_layout *L, fmt f, sink *s,
     cs = draw_on(p, L, f, scale, surf, &oom);
     if (cs == CAIRO_STATUS_SUCCESS && !oom) {
         if (f == FMT_PNG)
-            cs = cairo_surface_write_to_png_stream(surf, sink_write, s);
+            cs = cairo_surface_write_to_png_stream(surf, mem_write, &mem);
         else
             cairo_surface_finish(surf);
         if (cs == CAIRO_STATUS_SUCCESS)
@@ -314,6 +329,8 @@ render(const dk_plot *p, const plot_layout *L, fmt f, sink *s,
     cairo_surface_destroy(surf);
     if (f == FMT_SVG && cs == CAIRO_STATUS_SUCCESS && !oom)
         cs = svg_write_stable(&mem, s);
+    if (f == FMT_PNG && cs == CAIRO_STATUS_SUCCESS && !oom)
+        cs = png_write_with_dpi(&mem, p->dpi, s);
     free(mem.data);
     if (oom)
         return dk_error_set(err, DK_ENOMEM, "cannot draw '%s': out of "
@@ -322,6 +339,9 @@ render(const dk_plot *p, const plot_layout *L, fmt f, sink *s,
         return cairo_failure(cs, s, path, err);
     return DK_OK;
 }
+
+static dk_status write_layout(const dk_plot *p, const plot_layout *L, fmt f,
+                              const char *path, dk_error *err);
 
 dk_status
 dk_plot_write(const dk_plot *p, const char *path, dk_error *err)
@@ -336,6 +356,17 @@ dk_plot_write(const dk_plot *p, const char *path, dk_error *err)
     dk_status st = plot_layout_compute(p, &L, err);
     if (st)
         return st;
+    st = write_layout(p, &L, f, path, err);
+    plot_layout_release(&L);
+    return st;
+}
+
+/* The file part of dk_plot_write(), once the figure is laid out. */
+static dk_status
+write_layout(const dk_plot *p, const plot_layout *L, fmt f, const char *path,
+             dk_error *err)
+{
+    dk_status st;
 
     char *tmp = NULL;
     int fd = open_temp(path, &tmp);
@@ -351,7 +382,7 @@ dk_plot_write(const dk_plot *p, const char *path, dk_error *err)
         return dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
                             strerror(e));
     }
-    st = render(p, &L, f, &s, path, err);
+    st = render(p, L, f, &s, path, err);
     if (!st && (fflush(s.fp) != 0 || fsync(fileno(s.fp)) != 0))
         st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
                           strerror(errno));
