@@ -259,6 +259,30 @@ dk_status dk_scheme_parse(const char *text, dk_scheme *s, dk_error *err);
  */
 double dk_design_deff(dk_design *d);
 
+/* d_eff scaled to the design's wavelengths by Miller's rule. */
+typedef struct dk_deff_scaled {
+    double measured_pm_per_v;  /* d_eff from d as measured (= dk_design_deff) */
+    double measured_um;        /* the fundamental of the measurement */
+    double factor;             /* Miller factor; NAN when it cannot be
+                                * computed (then scaled = measured) */
+    double scaled_pm_per_v;    /* what efficiencies use */
+    char why_not[160];         /* when factor is NAN: why */
+} dk_deff_scaled;
+
+/*
+ * dk_design_deff_scaled:
+ * d_eff at the operating point scaled from the wavelengths where d was
+ * measured (SHG of the crystal file's nonlinear wavelength) to the
+ * design's, by Miller's rule d ∝ χ(ω3)χ(ω1)χ(ω2), χ = n² − 1, each wave
+ * in its own mode and direction (R. C. Miller, Appl. Phys. Lett. 5, 17
+ * (1964); Boyd, Nonlinear Optics, 3rd ed., §1.4). When an index at the
+ * measurement wavelengths is unavailable (e.g. its second harmonic lies
+ * beyond the transparency), d is used as measured and why_not says so.
+ * Returns: DK_OK; DK_ENOTFOUND when the crystal has no d data.
+ */
+dk_status dk_design_deff_scaled(dk_design *d, dk_deff_scaled *out,
+                                dk_error *err);
+
 /*
  * dk_design_input_index:
  * The index of the wave that enters the crystal (the fundamental for SHG,

@@ -34,7 +34,9 @@ dk_status dk_design_gain_fwhm(dk_design *d, double gamma_per_mm,
 
 /* Parametric amplification of a design (three-wave mixing). */
 typedef struct dk_opa_result {
-    double deff_pm_per_v;     /* as used */
+    double deff_pm_per_v;     /* as used: Miller-scaled when possible
+                               * (dk_design_deff_scaled) */
+    dk_deff_scaled deff;      /* measured, factor, why not scaled */
     double gamma_per_mm;      /* Γ */
     double gain;              /* G at phase matching */
     int have_band;            /* 1: the FWHM below was found */

@@ -20,7 +20,7 @@
 #include <stddef.h>
 
 #define DK_NOTES_MAX 32
-#define DK_NOTE_TEXT_MAX 320
+#define DK_NOTE_TEXT_MAX 512
 #define DK_NOTE_CODE_MAX 40
 
 typedef enum dk_note_kind {
@@ -58,6 +58,9 @@ void dk_notes_add(dk_notes *notes, dk_note_kind kind, const char *code,
     __attribute__((format(printf, 4, 5)))
 #endif
     ;
+
+/* Remove every note with code @code. */
+void dk_notes_remove(dk_notes *notes, const char *code);
 
 /* Append every note of @from to @to (duplicates dropped). */
 void dk_notes_merge(dk_notes *to, const dk_notes *from);

@@ -85,7 +85,10 @@ dk_design_opa(dk_design *d, double pump_gw_per_cm2, dk_opa_result *out,
     dk_status s = dk_pulse_props_of(d, &r->pulse, err);
     if (s)
         return s;
-    r->deff_pm_per_v = dk_design_deff(d);
+    if (dk_design_deff_scaled(d, &r->deff, NULL) == DK_OK)
+        r->deff_pm_per_v = r->deff.scaled_pm_per_v;
+    else
+        r->deff_pm_per_v = NAN;
     if (!isfinite(r->deff_pm_per_v) || r->deff_pm_per_v == 0)
         return dk_error_set(err, DK_EDOM,
                             "%s has no usable d_eff for this design (%s)",
@@ -103,7 +106,9 @@ dk_design_opa(dk_design *d, double pump_gw_per_cm2, dk_opa_result *out,
         (s = dk_opa_signal_gain(r->gamma_per_mm, 0, d->length_mm, &r->gain,
                                 err)))
         return s;
-    if (pp->gvm_fs_per_mm[2] != 0)
+    /* Matched group velocities (the broadband geometry): the first-order
+     * estimate diverges and does not apply. */
+    if (fabs(pp->gvm_fs_per_mm[2]) > 1e-3)
         dk_opa_bandwidth_thz(r->gamma_per_mm, d->length_mm,
                              pp->gvm_fs_per_mm[2], &r->first_order_thz, NULL);
     if (dk_design_gain_fwhm(d, r->gamma_per_mm, &r->signal_lo_um,

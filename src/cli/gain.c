@@ -153,7 +153,9 @@ cmd_gain(int argc, char **argv)
     rc = CLI_FAIL;
 #define d (*dp)
     int qpm = d.scheme == DK_SCHEME_QPM;
-    double deff = dk_design_deff(&d);
+    dk_deff_scaled ds = {0};
+    dk_design_deff_scaled(&d, &ds, NULL);
+    double deff = ds.scaled_pm_per_v;
     if (!isfinite(deff) || deff == 0) {
         cli_error("%s has no usable d_eff for this design (%s)", c->id,
                   c->has_nonlinear ? "it vanishes for these modes and this "
@@ -175,6 +177,16 @@ cmd_gain(int argc, char **argv)
     json_object_object_add(o, "length_mm", cli_json_num(d.length_mm));
     json_object_object_add(o, "temperature_C", cli_json_num(d.temp_c));
     json_object_object_add(o, "deff_pm_per_V", cli_json_num(deff));
+    json_object_object_add(o, "deff_measured_pm_per_V",
+                           cli_json_num(ds.measured_pm_per_v));
+    json_object_object_add(o, "deff_measured_wavelength_um",
+                           cli_json_num(ds.measured_um));
+    if (isfinite(ds.factor))
+        json_object_object_add(o, "miller_factor", cli_json_num(ds.factor));
+    else
+        cli_warn("d_eff not scaled by Miller's rule (%s): used as measured "
+                 "at %.4g um",
+                 ds.why_not, ds.measured_um);
     if (!qpm && d.angle.alpha_rad != 0)
         json_object_object_add(o, "alpha_deg",
                                cli_json_num(d.angle.alpha_rad /
@@ -187,6 +199,13 @@ cmd_gain(int argc, char **argv)
                "pm/V\n",
             c->id, d.set->name, qpm ? "QPM" : "birefringent", d.length_mm,
             d.temp_c, deff);
+    if (isfinite(ds.factor))
+        fprintf(f, "  (d_eff %.3g pm/V from d measured at %.4g um, scaled to "
+                   "these wavelengths by Miller's rule: x %.3f)\n",
+                ds.measured_pm_per_v, ds.measured_um, ds.factor);
+    else
+        fprintf(f, "  (d_eff from d measured at %.4g um, not scaled: %s)\n",
+                ds.measured_um, ds.why_not);
     if (!qpm)
         fprintf(f, "  modes %s, theta %.3f deg, phi %.2f deg%s", d.pol,
                 d.theta_rad / DK_RAD_PER_DEG, d.phi_rad / DK_RAD_PER_DEG,

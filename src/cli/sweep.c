@@ -13,6 +13,7 @@
 #include "cli.h"
 #include "commands.h"
 #include "design_args.h"
+#include "plot_args.h"
 #include "deltak/plot.h"
 #include "deltak/sweep.h"
 #include "deltak/units.h"
@@ -27,7 +28,7 @@ static const char *const sweep_usage[] = {
     "             [--noncollinear <deg>] [--plane XY|YZ|XZ] [--scheme "
     "qpm|birefringent]",
     "             [--dispersion <set>] [--csv | --json] [--plot "
-    "<file.pdf|.svg|.png>] [--size single|double|slide|WxH]",
+    "<file.pdf|.svg|.png>] [figure options]",
     "",
     "  variables  period (um), temp (C), pump, signal, idler, fundamental "
     "(with unit), theta, phi, alpha (deg), length (mm)",
@@ -39,6 +40,7 @@ static const char *const sweep_usage[] = {
     "needs --length",
     "  n          points along the range (default 201; curves up to 100000, "
     "maps up to 2048x2048 cells)",
+    CLI_PLOT_USAGE,
     "examples:",
     "  deltak sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um "
     "--solve idler --family temp=30,100,170 --plot tuning.pdf",
@@ -318,8 +320,23 @@ map_csv(FILE *f, const dk_design *d, const dk_map_spec *mp,
         }
 }
 
+/* Grey bands where @axis leaves the crystal's transparency. */
 static dk_status
-plot_curves(dk_plot *fig, const dk_sweep_spec *sp, const dk_sweep_result *res,
+transparency_regions(dk_plot *fig, dk_plot_axis axis, const dk_crystal *c,
+                     dk_error *err)
+{
+    dk_status ps = dk_plot_add_region(fig, axis, -INFINITY,
+                                      c->transparency_um[0],
+                                      "not transparent", err);
+    if (!ps)
+        ps = dk_plot_add_region(fig, axis, c->transparency_um[1], INFINITY,
+                                NULL, err);
+    return ps;
+}
+
+static dk_status
+plot_curves(dk_plot *fig, const dk_design *d, const dk_sweep_spec *sp,
+            const cli_plot_args *pa, const dk_sweep_result *res,
             dk_error *err)
 {
     dk_status ps = dk_plot_set_ylabel(fig,
@@ -331,12 +348,34 @@ plot_curves(dk_plot *fig, const dk_sweep_spec *sp, const dk_sweep_result *res,
         int any = 0;
         for (size_t i = 0; i < a->n && !any; i++)
             any = isfinite(a->y[i]);
-        if (any)
-            ps = dk_plot_add_line(fig, a->x, a->y, a->n,
-                                  a->label[0] ? a->label : NULL, err);
+        if (!any)
+            continue;
+        unsigned char *fl = malloc(a->n);
+        if (!fl)
+            return dk_error_set(err, DK_ENOMEM, "out of memory");
+        for (size_t i = 0; i < a->n; i++)
+            fl[i] = a->flags[i] ? DK_PLOT_FLAG_OUTSIDE_FIT : 0;
+        ps = dk_plot_add_line_flagged(fig, a->x, a->y, fl, a->n,
+                                      a->label[0] ? a->label : NULL, err);
+        free(fl);
     }
-    if (!ps && sp->quantity == DK_SWEEP_SINC2)
+    if (!ps && sp->quantity == DK_SWEEP_SINC2 && !isfinite(pa->yrange[0]))
         ps = dk_plot_set_yrange(fig, 0, 1.05, err);
+    if (!ps && sp->quantity == DK_SWEEP_SOLVE &&
+        dk_var_is_wavelength(sp->target)) {
+        /* Only where the curves come near the edges: a region out of
+         * view would still take a legend entry. */
+        double lo = INFINITY, hi = -INFINITY;
+        for (int s = 0; s < res->nseries; s++)
+            for (size_t i = 0; i < res->series[s].n; i++)
+                if (isfinite(res->series[s].y[i])) {
+                    lo = fmin(lo, res->series[s].y[i]);
+                    hi = fmax(hi, res->series[s].y[i]);
+                }
+        const double *t = d->crystal->transparency_um;
+        if (hi > t[1] - 0.1 * (t[1] - t[0]) || lo < 1.1 * t[0])
+            ps = transparency_regions(fig, DK_PLOT_Y_AXIS, d->crystal, err);
+    }
     return ps;
 }
 
@@ -349,6 +388,18 @@ plot_map(dk_plot *fig, const dk_map_spec *mp, const dk_map_result *m,
         ps = dk_plot_set_map(fig, m->z, m->nx, m->ny, mp->x_lo, mp->x_hi,
                              mp->y_lo, mp->y_hi, "sinc<sup>2</sup>(Δk L/2)",
                              err);
+    if (!ps && m->flags) {
+        size_t cells = (size_t)m->nx * m->ny;
+        unsigned char *fl = malloc(cells);
+        if (!fl)
+            return dk_error_set(err, DK_ENOMEM, "out of memory");
+        for (size_t c = 0; c < cells; c++)
+            fl[c] = m->cell[c] == DK_CELL_EXTRAPOLATED
+                        ? DK_PLOT_FLAG_OUTSIDE_FIT
+                        : 0;
+        ps = dk_plot_set_map_flags(fig, fl, "undefined (opaque)", err);
+        free(fl);
+    }
     if (!ps)
         ps = dk_plot_add_contour(fig, 0.5, "half maximum", err);
     if (!ps)
@@ -403,20 +454,20 @@ cmd_sweep(int argc, char **argv)
         {"solve", required_argument, NULL, 'S'},
         {"family", required_argument, NULL, 'F'},
         {"map", required_argument, NULL, 'M'},
-        {"plot", required_argument, NULL, 'G'},
-        {"size", required_argument, NULL, 'Z'},
+        CLI_PLOT_OPTIONS,
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *vary = NULL, *solve = NULL, *family = NULL, *map = NULL,
-               *plot = NULL, *size = "single";
+    const char *vary = NULL, *solve = NULL, *family = NULL, *map = NULL;
+    cli_plot_args pa = {0};
     int ch, rc;
     optind = 1;
     opterr = 0;
     while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         if (cli_common_option(ch, &cm))
             continue;
-        if ((rc = cli_design_option(ch, opts, &da, sweep_usage)) == 1)
+        if ((rc = cli_design_option(ch, opts, &da, sweep_usage)) == 1 ||
+            (rc = cli_plot_option(ch, &pa, sweep_usage)) == 1)
             continue;
         if (rc)
             return rc;
@@ -425,8 +476,6 @@ cmd_sweep(int argc, char **argv)
         case 'S': solve = optarg; break;
         case 'F': family = optarg; break;
         case 'M': map = optarg; break;
-        case 'G': plot = optarg; break;
-        case 'Z': size = optarg; break;
         case 'h': cli_print_usage(stdout, sweep_usage); return 0;
         default: return cli_bad_option(argv, sweep_usage);
         }
@@ -443,7 +492,6 @@ cmd_sweep(int argc, char **argv)
     dk_error err = {0};
     dk_sweep_spec sp = {0};
     dk_map_spec mp = {0};
-    double wmm = 0, hmm = 0;
     double xr[2];
     int nx;
     if (parse_range_var("--vary", vary, &sp.x, xr, &nx,
@@ -466,8 +514,9 @@ cmd_sweep(int argc, char **argv)
     }
     if (family && parse_family(family, &sp))
         return CLI_USAGE;
-    if (dk_plot_size_parse(size, &wmm, &hmm, &err))
-        return cli_usage_error(sweep_usage, "%s", err.msg);
+    if (cli_plot_parse(&pa, sweep_usage))
+        return CLI_USAGE;
+    const char *plot = cli_plot_path(&pa);
     if (solve && dk_sweep_quantity_parse(solve, &sp.quantity, &sp.target,
                                          &err))
         return cli_usage_error(sweep_usage, "%s", err.msg);
@@ -525,7 +574,7 @@ cmd_sweep(int argc, char **argv)
             curves_csv(out.f, d, &sp, &res);
     }
     if (plot) {
-        dk_status ps = dk_plot_new(wmm, hmm, &fig, &err);
+        dk_status ps = cli_plot_new(&pa, &fig, &err);
         if (!ps)
             ps = dk_plot_set_xlabel(fig, axis_markup(sp.x), &err);
         if (!ps && dk_var_is_wavelength(sp.x))
@@ -534,7 +583,9 @@ cmd_sweep(int argc, char **argv)
                                       "Wavenumber (cm<sup>−1</sup>)", &err);
         if (!ps)
             ps = map ? plot_map(fig, &mp, &mres, &err)
-                     : plot_curves(fig, &sp, &res, &err);
+                     : plot_curves(fig, d, &sp, &pa, &res, &err);
+        if (!ps && dk_var_is_wavelength(sp.x))
+            ps = transparency_regions(fig, DK_PLOT_X_AXIS, d->crystal, &err);
         if (!ps)
             ps = dk_plot_write(fig, plot, &err);
         if (ps) {

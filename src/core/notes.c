@@ -54,6 +54,16 @@ dk_notes_add(dk_notes *notes, dk_note_kind kind, const char *code,
 }
 
 void
+dk_notes_remove(dk_notes *notes, const char *code)
+{
+    int k = 0;
+    for (int i = 0; i < notes->n; i++)
+        if (strcmp(notes->item[i].code, code) != 0)
+            notes->item[k++] = notes->item[i];
+    notes->n = k;
+}
+
+void
 dk_notes_merge(dk_notes *to, const dk_notes *from)
 {
     for (int i = 0; i < from->n; i++)

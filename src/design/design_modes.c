@@ -99,6 +99,12 @@ dk_design_qpm_modes(dk_design *d, char pol[4], dk_error *err)
     char l[3], cand[8][4];
     double deff[8], dmax = 0;
     int n = 0;
+    /* At degeneracy (SHG, or equal signal and idler) the two orderings of
+     * signal and idler are one process. */
+    const dk_waves *w = &rq->waves;
+    int degenerate = d->shg || (w->signal_um > 0 &&
+                                fabs(w->signal_um - w->idler_um) <
+                                    1e-9 * w->signal_um);
     qpm_letters(c, l);
     for (int k = 0; k < 8; k++) {
         char p[4] = {l[(k >> 2) & 1], l[(k >> 1) & 1], l[k & 1], 0};
@@ -106,8 +112,7 @@ dk_design_qpm_modes(dk_design *d, char pol[4], dk_error *err)
         dk_design_type_of(p, t);
         if (strcmp(t, rq->type))
             continue;
-        /* SHG: signal and idler are one wave; keep one ordering. */
-        if (d->shg && p[0] != p[1] && strchr(l, p[1]) < strchr(l, p[0]))
+        if (degenerate && p[0] != p[1] && strchr(l, p[1]) < strchr(l, p[0]))
             continue;
         memcpy(cand[n], p, 4);
         deff[n] = bulk_deff(d, p);

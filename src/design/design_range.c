@@ -159,4 +159,15 @@ dk_design_note_provenance(dk_design *d)
     if (t)
         dk_notes_add(&d->notes, DK_NOTE_CAUTION, "caution",
                      "%s at %.4g C: %s", c->id, d->temp_c, t);
+    const double lam[3] = {d->waves.signal_um, d->waves.idler_um,
+                           d->waves.pump_um};
+    for (int k = 0; k < 3; k++) {
+        if (!(lam[k] > 0) || (d->shg && k == 1))
+            continue;
+        const char *w = dk_crystal_caution_wavelength(c, lam[k]);
+        if (w)
+            dk_notes_add(&d->notes, DK_NOTE_CAUTION, "caution:wavelength",
+                         "%s, the %s at %.5g um: %s", c->id,
+                         dk_design_wave_name(d, k), lam[k], w);
+    }
 }

@@ -416,6 +416,8 @@ dk_design_ncpm(dk_design *d, dk_error *err)
     }
     d->nsol = 0;
     d->angle.waves = d->waves;
+    /* The temperature is what is solved for here. */
+    dk_notes_remove(&d->notes, "default-temperature");
     for (size_t k = 0; k < 3; k++)
         for (int c = 0; c < 8; c++) {
             char p[4] = {l[(c >> 2) & 1], l[(c >> 1) & 1], l[c & 1], 0};
@@ -457,43 +459,3 @@ dk_design_ncpm(dk_design *d, dk_error *err)
     return DK_OK;
 }
 
-/* The birefringent solution at the operating point, described. */
-static int
-describe_here(dk_design *d, dk_angle_solution *a)
-{
-    memset(a, 0, sizeof *a);
-    memcpy(a->pol, d->pol, 4);
-    a->theta_rad = d->theta_rad;
-    a->phi_rad = d->phi_rad;
-    dk_angle_problem pb = d->angle;
-    pb.waves = d->waves;
-    pb.temp_c = d->temp_c;
-    return dk_angle_describe(&pb, a, NULL) == DK_OK;
-}
-
-double
-dk_design_deff(dk_design *d)
-{
-    if (d->scheme == DK_SCHEME_QPM) {
-        double v;
-        return dk_qpm_deff(&d->qpm, &v, NULL) ? NAN : v;
-    }
-    dk_angle_solution a;
-    return describe_here(d, &a) ? a.deff_pm_per_v : NAN;
-}
-
-double
-dk_design_input_index(dk_design *d)
-{
-    int k = d->shg ? 0 : 2;
-    if (d->scheme == DK_SCHEME_QPM) {
-        const double lam = k ? d->waves.pump_um : d->waves.signal_um;
-        double n;
-        return dk_material_n(d->crystal, d->set, d->qpm.pol[k], lam,
-                             d->temp_c, &n, NULL, NULL)
-                   ? NAN
-                   : n;
-    }
-    dk_angle_solution a;
-    return describe_here(d, &a) ? a.n[k] : NAN;
-}
