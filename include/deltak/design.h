@@ -221,6 +221,25 @@ unsigned dk_design_range_flags(const dk_design *d, const dk_waves *w,
 void dk_design_note_range(const dk_design *d, unsigned flags,
                           const dk_waves *w, double temp_c, dk_notes *notes);
 
+/* How far flagged points of many evaluations (a sweep, a chip) went
+ * beyond the fitted ranges, so that one note per wave can say it. */
+typedef struct dk_range_span {
+    unsigned flags;                 /* OR of the flags added */
+    double lam_min[3], lam_max[3];  /* signal, idler, pump, µm */
+    double t_min, t_max;            /* °C */
+} dk_range_span;
+
+void dk_range_span_init(dk_range_span *span);
+
+/* Record one evaluation at waves @w and @temp_c with range @flags. */
+void dk_range_span_add(dk_range_span *span, unsigned flags,
+                       const dk_waves *w, double temp_c);
+
+/* One note per flagged wave (and the temperature) with the span of its
+ * flagged values and the set's range. */
+void dk_design_note_span(const dk_design *d, const dk_range_span *span,
+                         dk_notes *notes);
+
 /*
  * dk_range_codes:
  * The flags as short codes for a CSV column ("range:idler;range:temp"),

@@ -181,69 +181,6 @@ family_label(dk_var v, double val, char *buf, size_t n)
     }
 }
 
-/* Where flagged points went beyond a fitted range, for the notes. */
-typedef struct excursion {
-    double lam_min[3], lam_max[3], t_min, t_max;
-} excursion;
-
-static void
-track(excursion *e, unsigned f, const dk_waves *w, double t)
-{
-    const double lam[3] = {w->signal_um, w->idler_um, w->pump_um};
-    static const unsigned bit[3] = {DK_RANGE_SIGNAL, DK_RANGE_IDLER,
-                                    DK_RANGE_PUMP};
-    for (int k = 0; k < 3; k++)
-        if ((f & bit[k]) && isfinite(lam[k])) {
-            e->lam_min[k] = fmin(e->lam_min[k], lam[k]);
-            e->lam_max[k] = fmax(e->lam_max[k], lam[k]);
-        }
-    if (f & (DK_RANGE_TEMP | DK_RANGE_NO_TEMP)) {
-        e->t_min = fmin(e->t_min, t);
-        e->t_max = fmax(e->t_max, t);
-    }
-}
-
-/* Notes on the excursions of a whole sweep. */
-static void
-note_excursions(const dk_design *d, unsigned flags, const excursion *e,
-                dk_notes *notes)
-{
-    const dk_dispersion_set *s = d->set;
-    static const unsigned bit[3] = {DK_RANGE_SIGNAL, DK_RANGE_IDLER,
-                                    DK_RANGE_PUMP};
-    for (int k = 0; k < 3; k++) {
-        if (!(flags & bit[k]) || (d->shg && k == 1))
-            continue;
-        char code[40];
-        snprintf(code, sizeof code, "range:%s", dk_design_wave_name(d, k));
-        for (char *c = code; *c; c++)
-            if (*c == ' ')
-                *c = '-';
-        dk_notes_add(notes, DK_NOTE_RANGE, code,
-                     "the %s spans %.5g-%.5g um at flagged points, outside "
-                     "the fitted range %.5g-%.5g um of data set '%s': "
-                     "extrapolated there",
-                     dk_design_wave_name(d, k), e->lam_min[k], e->lam_max[k],
-                     s->wavelength_range_um[0], s->wavelength_range_um[1],
-                     s->name);
-    }
-    if (flags & DK_RANGE_TEMP) {
-        const double *r = s->temp_form == DK_TEMP_NONE
-                              ? s->thermo.temperature_range_c
-                              : s->temperature_range_c;
-        dk_notes_add(notes, DK_NOTE_RANGE, "range:temperature",
-                     "temperatures %.5g-%.5g C at flagged points lie outside "
-                     "the fitted range %.5g-%.5g C of data set '%s': "
-                     "extrapolated there",
-                     e->t_min, e->t_max, r[0], r[1], s->name);
-    }
-    if (flags & DK_RANGE_NO_TEMP)
-        dk_notes_add(notes, DK_NOTE_RANGE, "no-temperature-dependence",
-                     "data set '%s' has no temperature dependence: points "
-                     "are evaluated at its %.5g C",
-                     s->name, s->reference_temperature_c);
-}
-
 void
 dk_sweep_result_free(dk_sweep_result *res)
 {
@@ -380,9 +317,8 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
     }
     for (int i = 0; i < sp->nx; i++)
         xs[i] = sp->x_lo + (sp->x_hi - sp->x_lo) * i / (sp->nx - 1);
-    excursion ex = {{INFINITY, INFINITY, INFINITY},
-                    {-INFINITY, -INFINITY, -INFINITY},
-                    INFINITY, -INFINITY};
+    dk_range_span ex;
+    dk_range_span_init(&ex);
     dk_error first = {0};
     long valued = 0;
     int nfam = sp->nfamily ? sp->nfamily : 1;
@@ -415,7 +351,7 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
                                                         : NAN;
                     else
                         w = s->d.waves, t = s->d.temp_c;
-                    track(&ex, pts[i].f[k], &w, t);
+                    dk_range_span_add(&ex, pts[i].f[k], &w, t);
                 }
         }
         st = add_series(res, sp, f, xs, pts, err);
@@ -436,6 +372,6 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
         dk_sweep_result_free(res);
         return st;
     }
-    note_excursions(base, res->flags, &ex, &res->notes);
+    dk_design_note_span(base, &ex, &res->notes);
     return DK_OK;
 }

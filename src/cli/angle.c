@@ -22,7 +22,7 @@ static const char *const angle_usage[] = {
     "[--plane XY|YZ|XZ]",
     "             [--noncollinear <deg> | --broadband] [--ncpm] [--cut <deg>] "
     "[--curve]",
-    "             [--dispersion <set> | --all-sets] [--json]",
+    "             [--dispersion <set> | --all-sets] [--json | --csv]",
     "",
     "  --type I|II          only this type (default: every combination)",
     "  --pol <sip>          only these modes of signal, idler, pump: o/e "
@@ -49,18 +49,6 @@ static const char *const angle_usage[] = {
 #define DEG DK_RAD_PER_DEG
 #define MAX_SETS 32
 
-static void
-add_flags(json_object *o, unsigned range, int shg)
-{
-    char buf[160];
-    if (!range)
-        return;
-    json_object *arr = json_object_new_array();
-    dk_range_codes(range, shg, buf, sizeof buf);
-    for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
-        json_object_array_add(arr, json_object_new_string(t));
-    json_object_object_add(o, "flags", arr);
-}
 
 static json_object *
 solution_json(const dk_design *d, const dk_solution *s, double ext)
@@ -95,7 +83,7 @@ solution_json(const dk_design *d, const dk_solution *s, double ext)
     if (isfinite(ext))
         json_object_object_add(o, "external_angle_deg",
                                cli_json_num(ext / DEG));
-    add_flags(o, s->range, d->shg);
+    cli_flags_json(o, s->range, d->shg);
     return o;
 }
 
@@ -186,6 +174,26 @@ print_table(FILE *f, const dk_design *d, double cut)
                    "lies farther from Z than the pump, < 0: nearer to Z\n");
 }
 
+static void
+print_csv(FILE *f, const dk_design *d, int header)
+{
+    char flags[256];
+    if (header)
+        fprintf(f, "dispersion,type,pol,plane,theta_deg,phi_deg,alpha_deg,"
+                   "temperature_C,deff_pm_per_V,walkoff_signal_mrad,"
+                   "walkoff_idler_mrad,walkoff_pump_mrad,chosen,flags\n");
+    for (int k = 0; k < d->nsol; k++) {
+        const dk_solution *s = &d->sol[k];
+        fprintf(f, "%s,%s,%s,%s,%.8g,%.8g,%.8g,%.8g,%.6g,%.6g,%.6g,%.6g,%d,%s\n",
+                d->set->name, s->type, s->pol, s->plane,
+                s->theta_rad / DEG, s->phi_rad / DEG, s->alpha_rad / DEG,
+                s->temp_c, s->deff_pm_per_v, s->walkoff_rad[0] * 1e3,
+                s->walkoff_rad[1] * 1e3, s->walkoff_rad[2] * 1e3,
+                k == d->chosen,
+                cli_csv_flags(s->range, d->shg, flags, sizeof flags));
+    }
+}
+
 /* The θ(φ) curve of every mode combination, as CSV. */
 static int
 print_curve(FILE *f, dk_design *d)
@@ -265,9 +273,6 @@ cmd_angle(int argc, char **argv)
     }
     if ((rc = cli_common_finish(&cm, argc, argv, 1, angle_usage)))
         return rc;
-    if (cm.csv && !curve)
-        return cli_usage_error(angle_usage, "--csv is offered with --curve; "
-                                            "otherwise use --json");
     double cut = NAN;
     if (cut_s && cli_angle("--cut", cut_s, -180, 180, &cut, angle_usage))
         return CLI_USAGE;
@@ -337,7 +342,9 @@ cmd_angle(int argc, char **argv)
             json_object_array_add(sj, solution_json(d, &d->sol[k],
                                                     external(d, &d->sol[k],
                                                              cut)));
-        if (!cm.json) {
+        if (cm.csv) {
+            print_csv(out.f, d, shown == 0);
+        } else if (!cm.json) {
             print_header(out.f, d, shown == 0);
             print_table(out.f, d, cut);
         }
@@ -381,11 +388,11 @@ cmd_angle(int argc, char **argv)
     }
     for (int i = 0; i < nsets; i++)
         cli_take_notes(&sets[i].notes);
-    if (!cm.json && cm.all && spread.n > 1)
+    if (!cm.json && !cm.csv && cm.all && spread.n > 1)
         fprintf(out.f, "\nspread over %d data sets (%s, the solution each "
                        "set chooses): %.3f deg\n",
                 spread.n, spread.quantity, spread.spread);
-    if (!cm.json && c->has_nonlinear)
+    if (!cm.json && !cm.csv && c->has_nonlinear)
         fprintf(out.f, "\nangles internal, in degrees (theta from Z, phi "
                        "from X); d_eff in pm/V%s\n",
                 c->nl_from_memory

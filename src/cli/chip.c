@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "design_args.h"
 #include "commands.h"
 #include "deltak/chip.h"
 #include "deltak/units.h"
@@ -64,7 +65,7 @@ cmd_chip(int argc, char **argv)
     int ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         if (cli_common_option(ch, &cm))
             continue;
         switch (ch) {
@@ -126,26 +127,66 @@ cmd_chip(int argc, char **argv)
         return CLI_FAIL;
     rc = CLI_FAIL;
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    const dk_dispersion_set *set = c ? cli_find_set(c, cm.set_name) : NULL;
-    dk_qpm q;
+    dk_design *d = malloc(sizeof *d);
     dk_grating g[MAX_GRATINGS];
+    unsigned gflags[MAX_GRATINGS];
     fan_point fp[MAX_POSITIONS];
     int ng = 0;
-    if (!set)
+    if (!c || !d)
         goto done;
+    /* The design layer picks the set (the crystal's QPM default) and the
+     * polarisations; the chip is laid out on its grating. */
+    dk_design_request rq;
+    dk_design_request_init(&rq);
+    rq.crystal = c;
+    rq.crystal_name = cm.crystal;
+    rq.set_name = cm.set_name;
+    rq.scheme = DK_SCHEME_QPM;
+    rq.waves.pump_um = pump_um;
+    rq.pol = pol;
+    rq.order = order;
+    rq.written_temp_c = written_c;
+    rq.temp_c = fan_t;
+    if ((rc = cli_design_make(&rq, d, 0)))
+        goto done;
+    rc = CLI_FAIL;
+    const dk_dispersion_set *set = d->set;
+    dk_qpm q = d->qpm;
     if (!dk_set_has_temperature(set)) {
         cli_error("data set '%s' has no temperature dependence, so it cannot "
                   "model oven tuning; pick a temperature-dependent set",
                   set->name);
         goto done;
     }
-    if (dk_qpm_init(&q, c, set, pol, order, 0.5, written_c, &err) ||
-        dk_chip_gratings(&q, pump_um, signal, range[0], range[1], oven_c,
+    if (dk_chip_gratings(&q, pump_um, signal, range[0], range[1], oven_c,
                          overlap, g, MAX_GRATINGS, &ng, &err)) {
         cli_error("%s", err.msg);
         goto done;
     }
-    cli_warn_index(set, q.warnings, q.warn_lambda_um, q.warn_temp_c);
+    /* Range flags at both ends of every grating's tuning range. */
+    dk_range_span span;
+    dk_range_span_init(&span);
+    for (int i = 0; i < ng; i++) {
+        gflags[i] = 0;
+        const double t[2] = {g[i].t_lo_c, g[i].t_hi_c};
+        const double x[2] = {g[i].lo_um, g[i].hi_um};
+        for (int k = 0; k < 2; k++) {
+            dk_waves w = {pump_um, 0, 0};
+            if (signal)
+                w.signal_um = x[k],
+                w.idler_um = dk_third_wave_um(pump_um, x[k]);
+            else
+                w.idler_um = x[k],
+                w.signal_um = dk_third_wave_um(pump_um, x[k]);
+            unsigned f = dk_design_range_flags(d, &w, t[k]);
+            dk_range_span_add(&span, f, &w, t[k]);
+            gflags[i] |= f;
+        }
+    }
+    dk_notes spn;
+    dk_notes_clear(&spn);
+    dk_design_note_span(d, &span, &spn);
+    cli_take_notes(&spn);
     cli_warn_caution(c, oven_c[0]);
     cli_warn_caution(c, oven_c[1]);
     if (fan) {
@@ -199,6 +240,14 @@ cmd_chip(int argc, char **argv)
                                    cli_json_num(g[i].t_lo_c));
             json_object_object_add(e, "temperature_at_hi_C",
                                    cli_json_num(g[i].t_hi_c));
+            if (gflags[i]) {
+                char buf[160];
+                json_object *fl = json_object_new_array();
+                dk_range_codes(gflags[i], 0, buf, sizeof buf);
+                for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
+                    json_object_array_add(fl, json_object_new_string(t));
+                json_object_object_add(e, "flags", fl);
+            }
             json_object_array_add(arr, e);
         }
         json_object_object_add(o, "gratings", arr);
@@ -219,16 +268,18 @@ cmd_chip(int argc, char **argv)
             json_object_object_add(fa, "positions", pts);
             json_object_object_add(o, "fanout", fa);
         }
-        cli_warnings_to_json(o);
+        cli_notes_to_json(o);
         cli_out_json(&out, o);
     } else if (csv) {
+        char flags[256];
         fprintf(out.f, "grating,period_um,%s_lo_um,%s_hi_um,"
-                       "temperature_at_lo_C,temperature_at_hi_C\n",
+                       "temperature_at_lo_C,temperature_at_hi_C,flags\n",
                 target, target);
         for (int i = 0; i < ng; i++)
-            fprintf(out.f, "%d,%.6f,%.6f,%.6f,%.3f,%.3f\n", i + 1,
+            fprintf(out.f, "%d,%.6f,%.6f,%.6f,%.3f,%.3f,%s\n", i + 1,
                     g[i].period_um, g[i].lo_um, g[i].hi_um, g[i].t_lo_c,
-                    g[i].t_hi_c);
+                    g[i].t_hi_c,
+                    cli_csv_flags(gflags[i], 0, flags, sizeof flags));
     } else {
         fprintf(out.f, "%s (data set %s), pump %.6g um: %d gratings cover "
                        "the %s from %.4g to %.4g um\nwith the oven at "
@@ -239,10 +290,16 @@ cmd_chip(int argc, char **argv)
         fprintf(out.f, "  %-3s %12s   %-24s %s\n", "#", "period um",
                 signal ? "signal range um" : "idler range um",
                 "oven C (at low, at high end)");
-        for (int i = 0; i < ng; i++)
-            fprintf(out.f, "  %-3d %12.4f   %8.4f - %-13.4f %6.1f, %6.1f\n",
+        for (int i = 0; i < ng; i++) {
+            char buf[96];
+            fprintf(out.f, "  %-3d %12.4f   %8.4f - %-13.4f %6.1f, %6.1f%s%s%s\n",
                     i + 1, g[i].period_um, g[i].lo_um, g[i].hi_um,
-                    g[i].t_lo_c, g[i].t_hi_c);
+                    g[i].t_lo_c, g[i].t_hi_c,
+                    gflags[i] ? "  [extrapolated: " : "",
+                    gflags[i] ? dk_range_words(gflags[i], 0, buf, sizeof buf)
+                              : "",
+                    gflags[i] ? "]" : "");
+        }
         if (fan) {
             fprintf(out.f, "\nfan-out, %.4g mm wide, oven at %.4g C: period "
                            "linear across the width\n  %8s %12s %12s\n",
@@ -259,6 +316,7 @@ cmd_chip(int argc, char **argv)
     }
     rc = cli_out_commit(&out);
 done:
+    free(d);
     dk_db_free(db);
     return rc;
 }

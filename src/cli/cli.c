@@ -442,3 +442,25 @@ cli_angle(const char *opt, const char *text, double lo_deg, double hi_deg,
     *rad = v * DK_RAD_PER_DEG;
     return 0;
 }
+
+void
+cli_flags_json(json_object *obj, unsigned range, int shg)
+{
+    char buf[160];
+    if (!range)
+        return;
+    json_object *arr = json_object_new_array();
+    dk_range_codes(range, shg, buf, sizeof buf);
+    for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
+        json_object_array_add(arr, json_object_new_string(t));
+    json_object_object_add(obj, "flags", arr);
+}
+
+void
+cli_flags_text(FILE *f, unsigned range, int shg)
+{
+    char buf[160];
+    if (range)
+        fprintf(f, "  [extrapolated: %s]\n",
+                dk_range_words(range, shg, buf, sizeof buf));
+}

@@ -67,6 +67,13 @@ void cli_notes_to_json(json_object *obj);
  * then the range codes of @range. Returns @buf. */
 const char *cli_csv_flags(unsigned range, int shg, char *buf, size_t n);
 
+/* "flags": [codes] in @obj when @range has any (DK_RANGE_* flags). */
+void cli_flags_json(json_object *obj, unsigned range, int shg);
+
+/* "  [extrapolated: idler, temperature]" and a newline when @range has
+ * any flags; nothing otherwise. */
+void cli_flags_text(FILE *f, unsigned range, int shg);
+
 /*
  * Strict numbers for options: no empty text, NaN, infinity, hexadecimal
  * or trailing characters, and inside [lo, hi]. Print the error with the

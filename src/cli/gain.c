@@ -213,6 +213,7 @@ cmd_gain(int argc, char **argv)
     if (!qpm && d.angle.alpha_rad != 0)
         fprintf(f, ", noncollinear alpha %+.3f deg\n",
                 d.angle.alpha_rad / DK_RAD_PER_DEG);
+    cli_flags_text(f, dk_design_range_flags(&d, &d.waves, d.temp_c), d.shg);
     dk_status st = DK_OK;
     if (d.shg) {
         fprintf(f, "  SHG of %.6g um\n", d.waves.signal_um);
@@ -408,6 +409,8 @@ cmd_gain(int argc, char **argv)
         cli_out_discard(&out);
         if (cli_out_open(&out))
             goto done;
+        cli_flags_json(o, dk_design_range_flags(&d, &d.waves, d.temp_c),
+                       d.shg);
         cli_notes_to_json(o);
         cli_out_json(&out, o);
         o = NULL;

@@ -48,7 +48,20 @@ axis_json(const row *r)
     json_object_object_add(a, "group_index", cli_json_num(r->ng));
     json_object_object_add(a, "gvd_fs2_per_mm", cli_json_num(r->gvd));
     json_object_object_add(a, "tod_fs3_per_mm", cli_json_num(r->tod));
-    json_object_object_add(a, "dn_dT_per_C", cli_json_num(r->v.dn_dt));
+    if (dk_set_has_temperature(r->set))
+        json_object_object_add(a, "dn_dT_per_C", cli_json_num(r->v.dn_dt));
+    if (r->v.warnings) {
+        json_object *fl = json_object_new_array();
+        if (r->v.warnings & DK_WARN_LAMBDA_RANGE)
+            json_object_array_add(fl, json_object_new_string("range:wavelength"));
+        if (r->v.warnings & DK_WARN_TEMP_RANGE)
+            json_object_array_add(fl,
+                                  json_object_new_string("range:temperature"));
+        if (r->v.warnings & DK_WARN_NO_TEMP)
+            json_object_array_add(fl, json_object_new_string(
+                                          "no-temperature-dependence"));
+        json_object_object_add(a, "flags", fl);
+    }
     json_object_object_add(a, "dn_dlambda_per_um", cli_json_num(r->v.dn_dl));
     return a;
 }
@@ -80,8 +93,16 @@ print_table(FILE *f, const dk_crystal *c, const row *rows, int n,
             fprintf(f, "  %-4s %10s %12s %13s %13s %12s\n", "axis", "n",
                     "group index", "GVD fs2/mm", "TOD fs3/mm", "dn/dT 1/C");
         }
-        fprintf(f, "  %-4c %10.6f %12.6f %13.2f %13.2f %12.3e\n", r->axis,
-                r->v.n, r->ng, r->gvd, r->tod, r->v.dn_dt);
+        char dndt[16];
+        if (dk_set_has_temperature(r->set))
+            snprintf(dndt, sizeof dndt, "%12.3e", r->v.dn_dt);
+        else
+            snprintf(dndt, sizeof dndt, "%12s", "n/a");
+        fprintf(f, "  %-4c %10.6f %12.6f %13.2f %13.2f %s%s\n", r->axis,
+                r->v.n, r->ng, r->gvd, r->tod, dndt,
+                r->v.warnings & (DK_WARN_LAMBDA_RANGE | DK_WARN_TEMP_RANGE)
+                    ? "  [extrapolated]"
+                    : "");
     }
     if (!all)
         return;
@@ -141,7 +162,7 @@ cmd_index(int argc, char **argv)
     int ch, rc;
     optind = 1;
     opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
+    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         if (cli_common_option(ch, &cm))
             continue;
         switch (ch) {
@@ -169,8 +190,31 @@ cmd_index(int argc, char **argv)
     rc = CLI_FAIL;
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
     const dk_dispersion_set *only = NULL;
-    if (!c || (!all && !(only = cli_find_set(c, set_name))))
+    if (!c)
         goto done;
+    if (!all && !set_name) {
+        const char *why;
+        only = dk_crystal_default_set(c, DK_USE_ANGLE, &why);
+        if (c->nsets > 1) {
+            dk_notes n;
+            dk_notes_clear(&n);
+            dk_notes_add(&n, DK_NOTE_DEFAULT, "default-set",
+                         "data set %s (%s); %d sets exist: pick one with "
+                         "--dispersion or compare them with --all-sets",
+                         only->name, why, c->nsets);
+            cli_take_notes(&n);
+        }
+    } else if (!all && !(only = cli_find_set(c, set_name))) {
+        goto done;
+    }
+    if (!temp) {
+        dk_notes n;
+        dk_notes_clear(&n);
+        dk_notes_add(&n, DK_NOTE_DEFAULT, "default-temperature",
+                     "temperature 25 C (not given; set it with --temp; a set "
+                     "without temperature dependence holds at its own)");
+        cli_take_notes(&n);
+    }
 
     row rows[MAX_ROWS];
     int n = 0;
@@ -236,12 +280,27 @@ cmd_index(int argc, char **argv)
     } else if (csv) {
         fprintf(out.f, "crystal,dispersion,axis,wavelength_um,temperature_C,"
                        "n,group_index,gvd_fs2_per_mm,tod_fs3_per_mm,"
-                       "dn_dT_per_C\n");
-        for (int i = 0; i < n; i++)
-            fprintf(out.f, "%s,%s,%c,%.10g,%.10g,%.10g,%.10g,%.8g,%.8g,%.6g\n",
+                       "dn_dT_per_C,flags\n");
+        for (int i = 0; i < n; i++) {
+            char flags[256], dndt[32] = "";
+            unsigned w = rows[i].v.warnings;
+            size_t k = strlen(cli_csv_flags(0, 0, flags, sizeof flags));
+            if (w & DK_WARN_LAMBDA_RANGE)
+                k += snprintf(flags + k, sizeof flags - k, "%srange:wavelength",
+                              k ? ";" : "");
+            if ((w & DK_WARN_TEMP_RANGE) && k < sizeof flags)
+                k += snprintf(flags + k, sizeof flags - k,
+                              "%srange:temperature", k ? ";" : "");
+            if ((w & DK_WARN_NO_TEMP) && k < sizeof flags)
+                snprintf(flags + k, sizeof flags - k,
+                         "%sno-temperature-dependence", k ? ";" : "");
+            if (dk_set_has_temperature(rows[i].set))
+                snprintf(dndt, sizeof dndt, "%.6g", rows[i].v.dn_dt);
+            fprintf(out.f, "%s,%s,%c,%.10g,%.10g,%.10g,%.10g,%.8g,%.8g,%s,%s\n",
                     c->id, rows[i].set->name, rows[i].axis, lambda_um,
                     rows[i].temp_c, rows[i].v.n, rows[i].ng, rows[i].gvd,
-                    rows[i].tod, rows[i].v.dn_dt);
+                    rows[i].tod, dndt, flags);
+        }
     } else {
         print_table(out.f, c, rows, n, lambda_um, temp_c, all);
     }

@@ -61,18 +61,6 @@ waves_json(const dk_waves *w, int shg)
     return o;
 }
 
-static void
-add_flags(json_object *o, unsigned range, int shg)
-{
-    char buf[160];
-    if (!range)
-        return;
-    json_object *arr = json_object_new_array();
-    dk_range_codes(range, shg, buf, sizeof buf);
-    for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
-        json_object_array_add(arr, json_object_new_string(t));
-    json_object_object_add(o, "flags", arr);
-}
 
 static json_object *
 design_json(const dk_design *d, const dk_set_outcome *sets, int nsets,
@@ -108,7 +96,7 @@ design_json(const dk_design *d, const dk_set_outcome *sets, int nsets,
             else
                 json_object_object_add(s, "wavelengths_um",
                                        waves_json(&d->sol[i].waves, 0));
-            add_flags(s, d->sol[i].range, d->shg);
+            cli_flags_json(s, d->sol[i].range, d->shg);
             json_object_array_add(sol, s);
         }
         json_object_object_add(o, "solutions", sol);
@@ -123,7 +111,7 @@ design_json(const dk_design *d, const dk_set_outcome *sets, int nsets,
     if (isfinite(c->deff_pm_per_v))
         json_object_object_add(o, "deff_pm_per_V",
                                cli_json_num(c->deff_pm_per_v));
-    add_flags(o, c->range, d->shg);
+    cli_flags_json(o, c->range, d->shg);
     if (sets) {
         json_object *arr = json_object_new_array();
         for (int i = 0; i < nsets; i++) {
@@ -136,7 +124,7 @@ design_json(const dk_design *d, const dk_set_outcome *sets, int nsets,
                                    cli_json_num(sets[i].value));
             json_object_object_add(s, "in_spread",
                                    json_object_new_boolean(sets[i].in_spread));
-            add_flags(s, sets[i].sol.range, d->shg);
+            cli_flags_json(s, sets[i].sol.range, d->shg);
             json_object_array_add(arr, s);
         }
         json_object_object_add(o, "sets", arr);

@@ -194,6 +194,8 @@ cmd_pulse(int argc, char **argv)
             json_object_object_add(o, "aperture_length_mm", la);
         } else
             json_object_put(la);
+        cli_flags_json(o, dk_design_range_flags(&d, &d.waves, d.temp_c),
+                       d.shg);
         cli_notes_to_json(o);
         cli_out_json(&out, o);
     } else {
@@ -206,7 +208,10 @@ cmd_pulse(int argc, char **argv)
             fprintf(out.f, ",\n  noncollinear: signal at %+.3f deg, idler at "
                            "%.3f deg from the pump (internal)",
                     d.angle.alpha_rad / DEG, pp.angle_rad[1] / DEG);
-        fprintf(out.f, "\n\n  %-7s %10s %10s %12s %13s %13s %10s\n", "wave",
+        fputc('\n', out.f);
+        cli_flags_text(out.f, dk_design_range_flags(&d, &d.waves, d.temp_c),
+                       d.shg);
+        fprintf(out.f, "\n  %-7s %10s %10s %12s %13s %13s %10s\n", "wave",
                 "um", "n", "group index", "GVD fs2/mm", "TOD fs3/mm",
                 "walk-off");
         static const char *const shg_names[3] = {"fund.", "", "harm."};

@@ -341,6 +341,8 @@ cmd_tolerance(int argc, char **argv)
                                        cli_json_num(acc[i].fwhm * 1e3 * nin));
         json_object_object_add(o, "external_angular_fwhm_mrad", ext);
         json_object_object_add(o, "linear_estimates", lin);
+        cli_flags_json(o, dk_design_range_flags(&d, &d.waves, d.temp_c),
+                       d.shg);
         cli_notes_to_json(o);
         cli_out_json(&out, o);
     } else if (cm.csv) {
@@ -385,10 +387,13 @@ cmd_tolerance(int argc, char **argv)
             fprintf(out.f, "modes %s, theta %.3f deg, phi %.2f deg, %.4g C\n",
                     d.pol, d.theta_rad / DEG, d.phi_rad / DEG, d.temp_c);
         if (d.shg)
-            fprintf(out.f, "  SHG of %.6g um\n\n", d.waves.signal_um);
+            fprintf(out.f, "  SHG of %.6g um\n", d.waves.signal_um);
         else
-            fprintf(out.f, "  pump %.6g um, signal %.6g um, idler %.6g um\n\n",
+            fprintf(out.f, "  pump %.6g um, signal %.6g um, idler %.6g um\n",
                     d.waves.pump_um, d.waves.signal_um, d.waves.idler_um);
+        cli_flags_text(out.f, dk_design_range_flags(&d, &d.waves, d.temp_c),
+                       d.shg);
+        fputc('\n', out.f);
         fprintf(out.f, "  %-26s %14s %16s %22s\n", "acceptance (FWHM)",
                 "exact", "first-order", "per length");
         for (size_t i = 0; i < NITEMS; i++) {

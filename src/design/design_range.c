@@ -171,3 +171,79 @@ dk_design_note_provenance(dk_design *d)
                          dk_design_wave_name(d, k), lam[k], w);
     }
 }
+
+void
+dk_range_span_init(dk_range_span *span)
+{
+    span->flags = 0;
+    for (int k = 0; k < 3; k++) {
+        span->lam_min[k] = INFINITY;
+        span->lam_max[k] = -INFINITY;
+    }
+    span->t_min = INFINITY;
+    span->t_max = -INFINITY;
+}
+
+void
+dk_range_span_add(dk_range_span *span, unsigned flags, const dk_waves *w,
+                  double temp_c)
+{
+    const double lam[3] = {w->signal_um, w->idler_um, w->pump_um};
+    static const unsigned bit[3] = {DK_RANGE_SIGNAL, DK_RANGE_IDLER,
+                                    DK_RANGE_PUMP};
+    span->flags |= flags;
+    for (int k = 0; k < 3; k++)
+        if ((flags & bit[k]) && isfinite(lam[k])) {
+            span->lam_min[k] = fmin(span->lam_min[k], lam[k]);
+            span->lam_max[k] = fmax(span->lam_max[k], lam[k]);
+        }
+    if (flags & (DK_RANGE_TEMP | DK_RANGE_NO_TEMP)) {
+        span->t_min = fmin(span->t_min, temp_c);
+        span->t_max = fmax(span->t_max, temp_c);
+    }
+}
+
+void
+dk_design_note_span(const dk_design *d, const dk_range_span *span,
+                    dk_notes *notes)
+{
+    const dk_dispersion_set *s = d->set;
+    static const unsigned bit[3] = {DK_RANGE_SIGNAL, DK_RANGE_IDLER,
+                                    DK_RANGE_PUMP};
+    for (int k = 0; k < 3; k++) {
+        if (!(span->flags & bit[k]) || (d->shg && k == 1))
+            continue;
+        char code[40];
+        snprintf(code, sizeof code, "range:%s", dk_design_wave_name(d, k));
+        for (char *c = code; *c; c++)
+            if (*c == ' ')
+                *c = '-';
+        char vals[64];
+        if (span->lam_min[k] == span->lam_max[k])
+            snprintf(vals, sizeof vals, "%.5g um", span->lam_min[k]);
+        else
+            snprintf(vals, sizeof vals, "%.5g-%.5g um", span->lam_min[k],
+                     span->lam_max[k]);
+        dk_notes_add(notes, DK_NOTE_RANGE, code,
+                     "the %s at %s lies outside the fitted range %.5g-%.5g "
+                     "um of data set '%s': extrapolated there (flagged)",
+                     dk_design_wave_name(d, k), vals,
+                     s->wavelength_range_um[0], s->wavelength_range_um[1],
+                     s->name);
+    }
+    if (span->flags & DK_RANGE_TEMP) {
+        const double *r = s->temp_form == DK_TEMP_NONE
+                              ? s->thermo.temperature_range_c
+                              : s->temperature_range_c;
+        dk_notes_add(notes, DK_NOTE_RANGE, "range:temperature",
+                     "temperatures %.5g-%.5g C lie outside the fitted range "
+                     "%.5g-%.5g C of data set '%s': extrapolated there "
+                     "(flagged)",
+                     span->t_min, span->t_max, r[0], r[1], s->name);
+    }
+    if (span->flags & DK_RANGE_NO_TEMP)
+        dk_notes_add(notes, DK_NOTE_RANGE, "no-temperature-dependence",
+                     "data set '%s' has no temperature dependence: "
+                     "evaluated at its %.5g C",
+                     s->name, s->reference_temperature_c);
+}
