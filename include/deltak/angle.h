@@ -47,6 +47,10 @@ typedef struct dk_angle_solution {
     double n[3];          /* eigen-indices of signal, idler, pump */
 } dk_angle_solution;
 
+/* The type of three mode (or axis) letters of signal, idler, pump: "0"
+ * when all are alike, "I" when signal and idler are alike, else "II". */
+void dk_angle_type_of(const char pol[3], char type[4]);
+
 /*
  * dk_angle_waves:
  * The unit wave vectors @dir (signal, idler, pump, optical frame) and the

@@ -51,6 +51,8 @@
 #include <gsl/gsl_odeiv2.h>
 #include <math.h>
 
+#include "core/gsl_guard.h"
+
 #include "deltak/gain.h"
 #include "deltak/units.h"
 
@@ -168,8 +170,8 @@ report(const double y[6], double z_mm, double n0_per_m2_s,
     }
 }
 
-dk_status
-dk_twm_propagate(const dk_twm *m, const double *z_mm, int nz,
+static dk_status
+dk_twm_propagate_impl(const dk_twm *m, const double *z_mm, int nz,
                  dk_twm_point *out, dk_error *err)
 {
     dk_status s = check_model(m, err);
@@ -242,4 +244,15 @@ dk_twm_propagate(const dk_twm *m, const double *z_mm, int nz,
     }
     gsl_odeiv2_driver_free(drv);
     return DK_OK;
+}
+
+/* The entry point: GSL's aborting handler off for the call. */
+dk_status
+dk_twm_propagate(const dk_twm *m, const double *z_mm, int nz,
+                 dk_twm_point *out, dk_error *err)
+{
+    dk_gsl_guard_enter();
+    dk_status s = dk_twm_propagate_impl(m, z_mm, nz, out, err);
+    dk_gsl_guard_leave();
+    return s;
 }

@@ -59,6 +59,8 @@
 #include <gsl/gsl_integration.h>
 #include <gsl/gsl_min.h>
 #include <math.h>
+
+#include "core/gsl_guard.h"
 #include <stdlib.h>
 
 #include "deltak/gain.h"
@@ -178,8 +180,8 @@ check_b(double walkoff_b, dk_error *err)
     return DK_OK;
 }
 
-dk_status
-dk_bk_h(double sigma, double xi, double walkoff_b, double *h, dk_error *err)
+static dk_status
+dk_bk_h_impl(double sigma, double xi, double walkoff_b, double *h, dk_error *err)
 {
     if (!(isfinite(sigma) && fabs(sigma) <= 1e4))
         return dk_error_set(err, DK_EINVAL,
@@ -301,8 +303,8 @@ h_max_ws(double xi, double walkoff_b, gsl_integration_workspace *ws,
     return DK_OK;
 }
 
-dk_status
-dk_bk_h_max(double xi, double walkoff_b, double *h_max, double *sigma_max,
+static dk_status
+dk_bk_h_max_impl(double xi, double walkoff_b, double *h_max, double *sigma_max,
             dk_error *err)
 {
     if (!(xi >= 1e-6 && xi <= 100))
@@ -341,8 +343,8 @@ minus_h_max(double ln_xi, void *p)
     return s->status ? NAN : -h;
 }
 
-dk_status
-dk_bk_optimum(double walkoff_b, double *xi_opt, double *h_opt,
+static dk_status
+dk_bk_optimum_impl(double walkoff_b, double *xi_opt, double *h_opt,
               double *sigma_opt, dk_error *err)
 {
     dk_status s = check_b(walkoff_b, err);
@@ -462,4 +464,36 @@ dk_bk_shg_efficiency(double deff_pm_per_v, double n_fund, double n_sh,
     *eta = 2 * omega * omega * d * d * k1 * len * fund_w * h /
            (M_PI * DK_EPS0_F_PER_M * c * c * c * n_fund * n_fund * n_sh);
     return DK_OK;
+}
+
+/* The entry point: GSL's aborting handler off for the call. */
+dk_status
+dk_bk_h(double sigma, double xi, double walkoff_b, double *h, dk_error *err)
+{
+    dk_gsl_guard_enter();
+    dk_status s = dk_bk_h_impl(sigma, xi, walkoff_b, h, err);
+    dk_gsl_guard_leave();
+    return s;
+}
+
+/* The entry point: GSL's aborting handler off for the call. */
+dk_status
+dk_bk_h_max(double xi, double walkoff_b, double *h_max, double *sigma_max,
+            dk_error *err)
+{
+    dk_gsl_guard_enter();
+    dk_status s = dk_bk_h_max_impl(xi, walkoff_b, h_max, sigma_max, err);
+    dk_gsl_guard_leave();
+    return s;
+}
+
+/* The entry point: GSL's aborting handler off for the call. */
+dk_status
+dk_bk_optimum(double walkoff_b, double *xi_opt, double *h_opt,
+              double *sigma_opt, dk_error *err)
+{
+    dk_gsl_guard_enter();
+    dk_status s = dk_bk_optimum_impl(walkoff_b, xi_opt, h_opt, sigma_opt, err);
+    dk_gsl_guard_leave();
+    return s;
 }

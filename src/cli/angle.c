@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "commands.h"
 #include "design_args.h"
 #include "deltak/constants.h"
@@ -240,6 +241,23 @@ solve(const dk_design_request *rq, dk_design *d, int ncpm, int curve)
     return 0;
 }
 
+typedef struct angle_opts {
+    int ncpm, curve;
+    const char *cut;
+} angle_opts;
+
+static int
+angle_option(int ch, const char *arg, void *ctx)
+{
+    angle_opts *o = ctx;
+    switch (ch) {
+    case 'C': o->ncpm = 1; return 0;
+    case 'K': o->curve = 1; return 0;
+    case 'X': o->cut = arg; return 0;
+    }
+    return -1;
+}
+
 int
 cmd_angle(int argc, char **argv)
 {
@@ -252,25 +270,13 @@ cmd_angle(int argc, char **argv)
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *cut_s = NULL;
-    int ncpm = 0, curve = 0, ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        if ((rc = cli_design_option(ch, opts, &da, angle_usage)) == 1)
-            continue;
-        if (rc)
-            return rc;
-        switch (ch) {
-        case 'C': ncpm = 1; break;
-        case 'K': curve = 1; break;
-        case 'X': cut_s = optarg; break;
-        case 'h': cli_print_usage(stdout, angle_usage); return 0;
-        default: return cli_bad_option(argv, angle_usage);
-        }
-    }
+    angle_opts ao = {0, 0, NULL};
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, angle_usage, &cm, &da, NULL,
+                                angle_option, &ao, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    int ncpm = ao.ncpm, curve = ao.curve;
+    const char *cut_s = ao.cut;
     if ((rc = cli_common_finish(&cm, argc, argv, 1, angle_usage)))
         return rc;
     double cut = NAN;

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "design_args.h"
 #include "commands.h"
 #include "deltak/chip.h"
@@ -44,46 +45,35 @@ typedef struct fan_point {
 int
 cmd_chip(int argc, char **argv)
 {
+    enum { O_PUMP = 500, O_IRANGE, O_SRANGE, O_OVEN, O_OVERLAP, O_FAN,
+           O_TEMP, O_NPOS, O_POL, O_ORDER, O_WRITTEN, O_END };
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"pump", required_argument, NULL, 'p'},
-        {"idler-range", required_argument, NULL, 'I'},
-        {"signal-range", required_argument, NULL, 'S'},
-        {"oven", required_argument, NULL, 'O'},
-        {"overlap", required_argument, NULL, 'o'},
-        {"fanout-width", required_argument, NULL, 'F'},
-        {"temp", required_argument, NULL, 't'},
-        {"positions", required_argument, NULL, 'n'},
-        {"pol", required_argument, NULL, 'P'},
-        {"order", required_argument, NULL, 'm'},
-        {"written-temp", required_argument, NULL, 'W'},
+        {"pump", required_argument, NULL, O_PUMP},
+        {"idler-range", required_argument, NULL, O_IRANGE},
+        {"signal-range", required_argument, NULL, O_SRANGE},
+        {"oven", required_argument, NULL, O_OVEN},
+        {"overlap", required_argument, NULL, O_OVERLAP},
+        {"fanout-width", required_argument, NULL, O_FAN},
+        {"temp", required_argument, NULL, O_TEMP},
+        {"positions", required_argument, NULL, O_NPOS},
+        {"pol", required_argument, NULL, O_POL},
+        {"order", required_argument, NULL, O_ORDER},
+        {"written-temp", required_argument, NULL, O_WRITTEN},
         {NULL, 0, NULL, 0}};
-    const char *pump = NULL, *irange = NULL, *srange = NULL, *oven = NULL,
-               *overlap_s = NULL, *fan = NULL, *temp = NULL, *npos_s = NULL,
-               *pol = NULL, *order_s = NULL, *written = NULL;
+    const char *v[O_END - O_PUMP] = {0};
+    cli_slots sl = {O_PUMP, O_END - O_PUMP, v, opts, chip_usage};
     cli_common cm = {0};
-    int ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        switch (ch) {
-        case 'p': pump = optarg; break;
-        case 'I': irange = optarg; break;
-        case 'S': srange = optarg; break;
-        case 'O': oven = optarg; break;
-        case 'o': overlap_s = optarg; break;
-        case 'F': fan = optarg; break;
-        case 't': temp = optarg; break;
-        case 'n': npos_s = optarg; break;
-        case 'P': pol = optarg; break;
-        case 'm': order_s = optarg; break;
-        case 'W': written = optarg; break;
-        case 'h': cli_print_usage(stdout, chip_usage); return 0;
-        default: return cli_bad_option(argv, chip_usage);
-        }
-    }
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, chip_usage, &cm, NULL, NULL,
+                                cli_slot_option, &sl, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    const char *pump = v[O_PUMP - O_PUMP], *irange = v[O_IRANGE - O_PUMP],
+               *srange = v[O_SRANGE - O_PUMP], *oven = v[O_OVEN - O_PUMP],
+               *overlap_s = v[O_OVERLAP - O_PUMP], *fan = v[O_FAN - O_PUMP],
+               *temp = v[O_TEMP - O_PUMP], *npos_s = v[O_NPOS - O_PUMP],
+               *pol = v[O_POL - O_PUMP], *order_s = v[O_ORDER - O_PUMP],
+               *written = v[O_WRITTEN - O_PUMP];
     if ((rc = cli_common_finish(&cm, argc, argv, 0, chip_usage)))
         return rc;
     int json = cm.json, csv = cm.csv;
@@ -96,7 +86,6 @@ cmd_chip(int argc, char **argv)
     double pump_um, range[2], oven_c[2] = {30, 200}, written_c = 25;
     double overlap = 0.1, width_mm = 0, fan_t;
     int order = 1, npos = 11;
-    char *end;
     if (dk_parse_wavelength(pump, &pump_um, &err) ||
         cli_parse_range(irange ? irange : srange, 1, range, &err) ||
         (oven && cli_parse_range(oven, 0, oven_c, &err)) ||
@@ -106,19 +95,12 @@ cmd_chip(int argc, char **argv)
     fan_t = 0.5 * (oven_c[0] + oven_c[1]);
     if (temp && dk_parse_temperature(temp, &fan_t, &err))
         return cli_usage_error(chip_usage, "%s", err.msg);
-    if (overlap_s && ((overlap = strtod(overlap_s, &end)), *end || overlap < 0 ||
-                      overlap >= 0.9))
-        return cli_usage_error(chip_usage, "--overlap '%s' must be a fraction "
-                                           "in [0, 0.9), e.g. 0.1",
-                               overlap_s);
-    if (order_s && ((order = (int)strtol(order_s, &end, 10)) < 1 || *end))
-        return cli_usage_error(chip_usage, "--order '%s' must be a positive "
-                                           "whole number",
-                               order_s);
-    if (npos_s && ((npos = (int)strtol(npos_s, &end, 10)) < 2 || *end ||
-                   npos > MAX_POSITIONS))
-        return cli_usage_error(chip_usage, "--positions must be 2 to %d",
-                               MAX_POSITIONS);
+    if ((overlap_s &&
+         cli_real("--overlap", overlap_s, 0, 0.89, &overlap, chip_usage)) ||
+        (order_s && cli_int("--order", order_s, 1, 99, &order, chip_usage)) ||
+        (npos_s &&
+         cli_int("--positions", npos_s, 2, MAX_POSITIONS, &npos, chip_usage)))
+        return CLI_USAGE;
     int signal = srange != NULL;
     const char *target = signal ? "signal" : "idler";
 

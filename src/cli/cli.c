@@ -338,11 +338,21 @@ cli_parse_range(const char *s, int wavelengths, double r[2], dk_error *err)
 }
 
 int
-cli_common_option(int ch, cli_common *cm)
+cli_common_option(int ch, cli_common *cm, const char *const usage[])
 {
     switch (ch) {
-    case 'c': cm->crystal = optarg; return 1;
-    case 'd': cm->set_name = optarg; return 1;
+    case 'c':
+        if (cm->crystal)
+            return cli_usage_error(usage, "--crystal is given twice; give "
+                                          "it once");
+        cm->crystal = optarg;
+        return 1;
+    case 'd':
+        if (cm->set_name)
+            return cli_usage_error(usage, "--dispersion is given twice; "
+                                          "give it once");
+        cm->set_name = optarg;
+        return 1;
     case 'a': cm->all = 1; return 1;
     case 'j': cm->json = 1; return 1;
     case 'v': cm->csv = 1; return 1;

@@ -156,8 +156,9 @@ typedef struct cli_common {
         {"json", no_argument, NULL, 'j'}, {"csv", no_argument, NULL, 'v'},   \
         {"help", no_argument, NULL, 'h'}
 
-/* Take a common option (getopt code @ch); returns 1 if it was one. */
-int cli_common_option(int ch, cli_common *cm);
+/* Take a common option (getopt code @ch): 1 if it was one, 0 if not,
+ * CLI_USAGE (after printing) when --crystal or --dispersion repeats. */
+int cli_common_option(int ch, cli_common *cm, const char *const usage[]);
 
 /*
  * After the option loop: no leftover arguments, --crystal given, and

@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "commands.h"
 
 static const char *const crystals_usage[] = {
@@ -285,26 +286,17 @@ cmd_crystals(int argc, char **argv)
     static const struct option opts[] = {{"json", no_argument, NULL, 'j'},
                                          {"help", no_argument, NULL, 'h'},
                                          {NULL, 0, NULL, 0}};
-    int json = 0, ch;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "+h", opts, NULL)) != -1) {
-        if (ch == 'j')
-            json = 1;
-        else if (ch == 'h') {
-            cli_print_usage(stdout, crystals_usage);
-            return 0;
-        } else
-            return cli_usage_error(crystals_usage, "unknown option '%s'",
-                                   argv[optind - 1]);
-    }
-    if (argc - optind > 1)
-        return cli_usage_error(crystals_usage, "give at most one crystal "
-                                               "name");
+    cli_common cm = {0};
+    const char *pos[1];
+    int npos = 1, rc;
+    if ((rc = cli_parse_options(argc, argv, opts, crystals_usage, &cm, NULL,
+                                NULL, NULL, NULL, pos, &npos)))
+        return rc == CLI_HELP ? 0 : rc;
+    int json = cm.json;
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
-    const char *name = optind < argc ? argv[optind] : NULL;
+    const char *name = npos ? pos[0] : NULL;
     const dk_crystal *c = NULL;
     if (name && !(c = cli_find_crystal(db, name))) {
         dk_db_free(db);

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "commands.h"
 #include "design_args.h"
 #include "deltak/gain_spectrum.h"
@@ -42,6 +43,7 @@ static const char *const gain_usage[] = {
     "  --spectrum       CSV of the parametric gain against signal "
     "wavelength",
     "  --plot <file>    the gain spectrum as a figure (.pdf, .svg, .png)",
+    CLI_PLOT_USAGE,
     NULL};
 
 #define ALLOWED CLI_D_ALL
@@ -60,45 +62,31 @@ damage_check(const dk_crystal *c, double gw_per_cm2)
 int
 cmd_gain(int argc, char **argv)
 {
+    enum { O_INTEN = 500, O_SEED, O_POWER, O_WAIST, O_DEPLETION, O_SPECTRUM,
+           O_END };
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"intensity", required_argument, NULL, 'I'},
-        {"seed", required_argument, NULL, 'E'},
-        {"power", required_argument, NULL, 'W'},
-        {"waist", required_argument, NULL, 'w'},
-        {"depletion", no_argument, NULL, 'D'},
-        {"spectrum", no_argument, NULL, 'X'},
-        {"plot", required_argument, NULL, 'G'},
-        {"size", required_argument, NULL, 'Z'},
+        CLI_PLOT_OPTIONS,
+        {"intensity", required_argument, NULL, O_INTEN},
+        {"seed", required_argument, NULL, O_SEED},
+        {"power", required_argument, NULL, O_POWER},
+        {"waist", required_argument, NULL, O_WAIST},
+        {"depletion", no_argument, NULL, O_DEPLETION},
+        {"spectrum", no_argument, NULL, O_SPECTRUM},
         {NULL, 0, NULL, 0}};
+    const char *v[O_END - O_INTEN] = {0};
+    cli_slots sl = {O_INTEN, O_END - O_INTEN, v, opts, gain_usage};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *inten_s = NULL, *seed_s = NULL, *power_s = NULL,
-               *waist_s = NULL, *plot = NULL, *size = "single";
-    int depletion = 0, spectrum = 0, ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        if ((rc = cli_design_option(ch, opts, &da, gain_usage)) == 1)
-            continue;
-        if (rc)
-            return rc;
-        switch (ch) {
-        case 'I': inten_s = optarg; break;
-        case 'E': seed_s = optarg; break;
-        case 'W': power_s = optarg; break;
-        case 'w': waist_s = optarg; break;
-        case 'D': depletion = 1; break;
-        case 'X': spectrum = 1; break;
-        case 'G': plot = optarg; break;
-        case 'Z': size = optarg; break;
-        case 'h': cli_print_usage(stdout, gain_usage); return 0;
-        default: return cli_bad_option(argv, gain_usage);
-        }
-    }
+    cli_plot_args pa = {0};
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, gain_usage, &cm, &da, &pa,
+                                cli_slot_option, &sl, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    const char *inten_s = v[0], *seed_s = v[1], *power_s = v[2],
+               *waist_s = v[3];
+    int depletion = v[4] != NULL, spectrum = v[5] != NULL;
     if ((rc = cli_common_finish(&cm, argc, argv, 0, gain_usage)))
         return rc;
     if (cm.csv)
@@ -109,14 +97,15 @@ cmd_gain(int argc, char **argv)
     if (!cli_design_given(&da, OPT_LENGTH))
         return cli_usage_error(gain_usage, "--length is required, e.g. "
                                            "--length 10mm");
-    double inten = NAN, seed = NAN, power = NAN, waist_mm = NAN, wmm = 0,
-           hmm = 0;
+    double inten = NAN, seed = NAN, power = NAN, waist_mm = NAN;
     if ((inten_s && dk_parse_intensity(inten_s, &inten, &err)) ||
         (seed_s && dk_parse_intensity(seed_s, &seed, &err)) ||
         (power_s && dk_parse_power(power_s, &power, &err)) ||
-        (waist_s && dk_parse_length(waist_s, &waist_mm, &err)) ||
-        dk_plot_size_parse(size, &wmm, &hmm, &err))
+        (waist_s && dk_parse_length(waist_s, &waist_mm, &err)))
         return cli_usage_error(gain_usage, "%s", err.msg);
+    if (cli_plot_parse(&pa, gain_usage))
+        return CLI_USAGE;
+    const char *plot = cli_plot_path(&pa);
     if (shg && (spectrum || plot || seed_s))
         return cli_usage_error(gain_usage, "--spectrum, --plot and --seed "
                                            "are for three-wave mixing, not "
@@ -377,7 +366,7 @@ cmd_gain(int argc, char **argv)
                     }
                 }
                 if (!st && plot) {
-                    st = dk_plot_new(wmm, hmm, &fig, &err);
+                    st = cli_plot_new(&pa, &fig, &err);
                     if (!st)
                         st = dk_plot_set_xlabel(
                             fig, "Signal wavelength λ<sub>s</sub> (µm)", &err);

@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "commands.h"
 #include "deltak/group.h"
 #include "deltak/material.h"
@@ -152,26 +153,20 @@ spread_json(const dk_crystal *c, const row *rows, int n)
 int
 cmd_index(int argc, char **argv)
 {
+    enum { O_WL = 500, O_TEMP, O_END };
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
-        {"wavelength", required_argument, NULL, 'w'},
-        {"temp", required_argument, NULL, 't'},
+        {"wavelength", required_argument, NULL, O_WL},
+        {"temp", required_argument, NULL, O_TEMP},
         {NULL, 0, NULL, 0}};
+    const char *v[O_END - O_WL] = {0};
+    cli_slots sl = {O_WL, O_END - O_WL, v, opts, index_usage};
     cli_common cm = {0};
-    const char *wl = NULL, *temp = NULL;
-    int ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        switch (ch) {
-        case 'w': wl = optarg; break;
-        case 't': temp = optarg; break;
-        case 'h': cli_print_usage(stdout, index_usage); return 0;
-        default: return cli_bad_option(argv, index_usage);
-        }
-    }
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, index_usage, &cm, NULL,
+                                NULL, cli_slot_option, &sl, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    const char *wl = v[0], *temp = v[1];
     if ((rc = cli_common_finish(&cm, argc, argv, 1, index_usage)))
         return rc;
     if (!wl)

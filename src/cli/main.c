@@ -1,7 +1,6 @@
 /*
  * main.c - the deltak program: find the subcommand in the table and run it.
  */
-#include <gsl/gsl_errno.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -62,8 +61,6 @@ print_help(FILE *f)
 int
 main(int argc, char **argv)
 {
-    /* GSL's default handler aborts; errors come back as codes instead. */
-    gsl_set_error_handler_off();
     if (argc < 2) {
         print_help(stderr);
         return CLI_USAGE;

@@ -12,6 +12,7 @@
 #include "cli.h"
 #include "commands.h"
 #include "design_args.h"
+#include "options.h"
 
 static const char *const period_usage[] = {
     "deltak period --crystal <name> (two of --pump/--signal/--idler | "
@@ -273,22 +274,10 @@ cmd_period(int argc, char **argv)
                                          {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    int ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        if ((rc = cli_design_option(ch, opts, &da, period_usage)) == 1)
-            continue;
-        if (rc)
-            return rc;
-        if (ch == 'h') {
-            cli_print_usage(stdout, period_usage);
-            return 0;
-        }
-        return cli_bad_option(argv, period_usage);
-    }
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, period_usage, &cm, &da, NULL,
+                                NULL, NULL, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
     if ((rc = cli_common_finish(&cm, argc, argv, 1, period_usage)))
         return rc;
     int given = cli_design_given(&da, OPT_PUMP) +

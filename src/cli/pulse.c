@@ -11,6 +11,7 @@
 #include "cli.h"
 #include "commands.h"
 #include "design_args.h"
+#include "options.h"
 #include "deltak/pulse.h"
 #include "deltak/constants.h"
 #include "deltak/units.h"
@@ -55,6 +56,21 @@ triple(const dk_pulse_props *p, size_t offset)
     return o;
 }
 
+typedef struct pulse_opts {
+    const char *duration, *waist;
+} pulse_opts;
+
+static int
+pulse_option(int ch, const char *arg, void *ctx)
+{
+    pulse_opts *po = ctx;
+    switch (ch) {
+    case 'D': po->duration = arg; return 0;
+    case 'W': po->waist = arg; return 0;
+    }
+    return -1;
+}
+
 int
 cmd_pulse(int argc, char **argv)
 {
@@ -66,24 +82,12 @@ cmd_pulse(int argc, char **argv)
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *dur_s = NULL, *waist_s = NULL;
-    int ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        if ((rc = cli_design_option(ch, opts, &da, pulse_usage)) == 1)
-            continue;
-        if (rc)
-            return rc;
-        switch (ch) {
-        case 'D': dur_s = optarg; break;
-        case 'W': waist_s = optarg; break;
-        case 'h': cli_print_usage(stdout, pulse_usage); return 0;
-        default: return cli_bad_option(argv, pulse_usage);
-        }
-    }
+    int rc;
+    pulse_opts po = {NULL, NULL};
+    if ((rc = cli_parse_options(argc, argv, opts, pulse_usage, &cm, &da, NULL,
+                                pulse_option, &po, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    const char *dur_s = po.duration, *waist_s = po.waist;
     if ((rc = cli_common_finish(&cm, argc, argv, 0, pulse_usage)))
         return rc;
     if (cm.csv)

@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "commands.h"
 #include "design_args.h"
 #include "plot_args.h"
@@ -447,39 +448,26 @@ base_design(const cli_design_args *da, const cli_common *cm,
 int
 cmd_sweep(int argc, char **argv)
 {
+    enum { O_VARY = 500, O_SOLVE, O_FAMILY, O_MAP, O_END };
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"vary", required_argument, NULL, 'V'},
-        {"solve", required_argument, NULL, 'S'},
-        {"family", required_argument, NULL, 'F'},
-        {"map", required_argument, NULL, 'M'},
         CLI_PLOT_OPTIONS,
+        {"vary", required_argument, NULL, O_VARY},
+        {"solve", required_argument, NULL, O_SOLVE},
+        {"family", required_argument, NULL, O_FAMILY},
+        {"map", required_argument, NULL, O_MAP},
         {NULL, 0, NULL, 0}};
+    const char *v[O_END - O_VARY] = {0};
+    cli_slots sl = {O_VARY, O_END - O_VARY, v, opts, sweep_usage};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *vary = NULL, *solve = NULL, *family = NULL, *map = NULL;
     cli_plot_args pa = {0};
-    int ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        if ((rc = cli_design_option(ch, opts, &da, sweep_usage)) == 1 ||
-            (rc = cli_plot_option(ch, &pa, sweep_usage)) == 1)
-            continue;
-        if (rc)
-            return rc;
-        switch (ch) {
-        case 'V': vary = optarg; break;
-        case 'S': solve = optarg; break;
-        case 'F': family = optarg; break;
-        case 'M': map = optarg; break;
-        case 'h': cli_print_usage(stdout, sweep_usage); return 0;
-        default: return cli_bad_option(argv, sweep_usage);
-        }
-    }
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, sweep_usage, &cm, &da, &pa,
+                                cli_slot_option, &sl, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    const char *vary = v[0], *solve = v[1], *family = v[2], *map = v[3];
     if ((rc = cli_common_finish(&cm, argc, argv, 0, sweep_usage)))
         return rc;
     if (!vary)

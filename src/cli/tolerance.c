@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "options.h"
 #include "commands.h"
 #include "design_args.h"
 #include "deltak/plot.h"
@@ -40,7 +41,8 @@ static const char *const tolerance_usage[] = {
     "  --curve <param>   print sinc^2 against temperature, signal, pump, "
     "theta, phi, period or tilt",
     "  --plot <file>     with --curve: draw it (.pdf, .svg, .png), the FWHM "
-    "shaded; --size as for sweep",
+    "shaded",
+    CLI_PLOT_USAGE,
     "",
     "Poled crystals get a QPM design unless --type or an angle option is "
     "given (--scheme overrides).",
@@ -93,13 +95,14 @@ curve_xlabel(dk_tol_param p)
 }
 
 static int
-print_curve(FILE *f, dk_design *d, const item *it, const char *plot,
-            double wmm, double hmm)
+print_curve(FILE *f, dk_design *d, const item *it,
+            const cli_plot_args *pa)
 {
     dk_acceptance a;
     dk_error err = {0};
     enum { NC = 401 };
     double xs[NC], ys[NC];
+    const char *plot = cli_plot_path(pa);
     if (dk_design_acceptance_curve(d, it->p, 2, NC, xs, ys, &a, &err))
         return cli_error("%s acceptance: %s", it->name, err.msg);
     double w = a.fwhm, x0 = a.peak;
@@ -118,7 +121,7 @@ print_curve(FILE *f, dk_design *d, const item *it, const char *plot,
     char band[64];
     snprintf(band, sizeof band, "FWHM %.3g %s", w * it->scale,
              !strcmp(it->unit, "C") ? "°C" : it->unit);
-    dk_status s = dk_plot_new(wmm, hmm, &fig, &err);
+    dk_status s = cli_plot_new(pa, &fig, &err);
     if (!s)
         s = dk_plot_set_xlabel(fig, curve_xlabel(it->p), &err);
     if (!s)
@@ -145,34 +148,23 @@ print_curve(FILE *f, dk_design *d, const item *it, const char *plot,
 int
 cmd_tolerance(int argc, char **argv)
 {
+    enum { O_CURVE = 500, O_END };
     static const struct option opts[] = {
         CLI_COMMON_OPTIONS,
         CLI_DESIGN_OPTIONS,
-        {"curve", required_argument, NULL, 'C'},
-        {"plot", required_argument, NULL, 'G'},
-        {"size", required_argument, NULL, 'Z'},
+        CLI_PLOT_OPTIONS,
+        {"curve", required_argument, NULL, O_CURVE},
         {NULL, 0, NULL, 0}};
+    const char *slot[O_END - O_CURVE] = {0};
+    cli_slots sl = {O_CURVE, O_END - O_CURVE, slot, opts, tolerance_usage};
     cli_common cm = {0};
     cli_design_args da = {0};
-    const char *curve = NULL, *plot = NULL, *size = "single";
-    int ch, rc;
-    optind = 1;
-    opterr = 0;
-    while ((ch = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (cli_common_option(ch, &cm))
-            continue;
-        if ((rc = cli_design_option(ch, opts, &da, tolerance_usage)) == 1)
-            continue;
-        if (rc)
-            return rc;
-        switch (ch) {
-        case 'C': curve = optarg; break;
-        case 'G': plot = optarg; break;
-        case 'Z': size = optarg; break;
-        case 'h': cli_print_usage(stdout, tolerance_usage); return 0;
-        default: return cli_bad_option(argv, tolerance_usage);
-        }
-    }
+    cli_plot_args pa = {0};
+    int rc;
+    if ((rc = cli_parse_options(argc, argv, opts, tolerance_usage, &cm, &da,
+                                &pa, cli_slot_option, &sl, NULL, NULL)))
+        return rc == CLI_HELP ? 0 : rc;
+    const char *curve = slot[0];
     if ((rc = cli_common_finish(&cm, argc, argv, 0, tolerance_usage)))
         return rc;
     dk_error err = {0};
@@ -183,12 +175,11 @@ cmd_tolerance(int argc, char **argv)
     for (size_t i = 0; curve && i < NITEMS; i++)
         if (!strcmp(curve, items[i].key))
             want = &items[i];
-    if (plot && !curve)
+    if (cli_plot_path(&pa) && !curve)
         return cli_usage_error(tolerance_usage, "--plot draws a --curve; "
                                                 "give --curve too");
-    double wmm = 0, hmm = 0;
-    if (dk_plot_size_parse(size, &wmm, &hmm, &err))
-        return cli_usage_error(tolerance_usage, "%s", err.msg);
+    if (cli_plot_parse(&pa, tolerance_usage))
+        return CLI_USAGE;
     if (curve && !want)
         return cli_usage_error(tolerance_usage, "--curve '%s' must be one of "
                                                 "temperature, signal, pump, "
@@ -217,7 +208,7 @@ cmd_tolerance(int argc, char **argv)
     if (cli_out_open(&out))
         goto done;
     if (want) {
-        if (print_curve(out.f, &d, want, plot, wmm, hmm)) {
+        if (print_curve(out.f, &d, want, &pa)) {
             cli_out_discard(&out);
             goto done;
         }

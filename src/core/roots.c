@@ -5,6 +5,8 @@
 #include <gsl/gsl_roots.h>
 #include <math.h>
 
+#include "core/gsl_guard.h"
+
 #include "deltak/roots.h"
 
 #define MAX_ITER 200   /* Brent converges superlinearly; 200 is ample */
@@ -21,8 +23,8 @@ call(double x, void *p)
     return w->f(x, w->params);
 }
 
-dk_status
-dk_root_bracketed(dk_scalar_fn f, void *params, double lo, double hi,
+static dk_status
+dk_root_bracketed_impl(dk_scalar_fn f, void *params, double lo, double hi,
                   double xtol, double *root, dk_error *err)
 {
     double flo = f(lo, params), fhi = f(hi, params);
@@ -96,4 +98,15 @@ dk_roots_all(dk_scalar_fn f, void *params, double lo, double hi, int nscan,
         f0 = f1;
     }
     return DK_OK;
+}
+
+/* The entry point: GSL's aborting handler off for the call. */
+dk_status
+dk_root_bracketed(dk_scalar_fn f, void *params, double lo, double hi,
+                  double xtol, double *root, dk_error *err)
+{
+    dk_gsl_guard_enter();
+    dk_status s = dk_root_bracketed_impl(f, params, lo, hi, xtol, root, err);
+    dk_gsl_guard_leave();
+    return s;
 }

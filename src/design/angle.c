@@ -114,8 +114,8 @@ dk_angle_delta_k(dk_angle_problem *pb, const char pol[3], double theta_rad,
     return 2 * M_PI * (sqrt(len) - ki);
 }
 
-static void
-type_of(const char pol[3], char type[4])
+void
+dk_angle_type_of(const char pol[3], char type[4])
 {
     if (pol[0] == pol[1] && pol[1] == pol[2])
         strcpy(type, "0");
@@ -140,7 +140,7 @@ dk_angle_describe(dk_angle_problem *pb, dk_angle_solution *sol,
         sol->walkoff_rad[k] = m[k].walkoff_rad;
         sol->n[k] = m[k].n;
     }
-    type_of(sol->pol, sol->type);
+    dk_angle_type_of(sol->pol, sol->type);
     dk_dtensor t;
     if (dk_dtensor_from_crystal(pb->crystal, &t, NULL))
         sol->deff_pm_per_v = NAN;

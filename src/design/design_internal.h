@@ -15,9 +15,6 @@ dk_status dk_design_qpm_modes(dk_design *d, char pol[4], dk_error *err);
  * d->pol ("" for every combination) and d->type. */
 dk_status dk_design_angle_modes(dk_design *d, dk_error *err);
 
-/* "0", "I" or "II" of three mode or axis letters. */
-void dk_design_type_of(const char pol[3], char type[4]);
-
 /* Notes on where the numbers come from (sets and d typed from memory)
  * and the crystal's cautions at the design's temperature and waves. */
 void dk_design_note_provenance(dk_design *d);

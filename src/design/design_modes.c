@@ -16,17 +16,6 @@
 #include "deltak/nonlinear.h"
 #include "design_internal.h"
 
-void
-dk_design_type_of(const char pol[3], char type[4])
-{
-    if (pol[0] == pol[1] && pol[1] == pol[2])
-        strcpy(type, "0");
-    else if (pol[0] == pol[1])
-        strcpy(type, "I");
-    else
-        strcpy(type, "II");
-}
-
 /* The two polarisation letters a QPM design of @c may use. */
 static void
 qpm_letters(const dk_crystal *c, char letters[3])
@@ -83,7 +72,7 @@ dk_design_qpm_modes(dk_design *d, char pol[4], dk_error *err)
                                 rq->pol);
         snprintf(pol, 4, "%s", rq->pol);
         char t[4];
-        dk_design_type_of(pol, t);
+        dk_angle_type_of(pol, t);
         if (rq->type && strcmp(rq->type, t))
             return dk_error_set(err, DK_EINVAL,
                                 "--pol %s is type %s, not type %s as "
@@ -109,7 +98,7 @@ dk_design_qpm_modes(dk_design *d, char pol[4], dk_error *err)
     for (int k = 0; k < 8; k++) {
         char p[4] = {l[(k >> 2) & 1], l[(k >> 1) & 1], l[k & 1], 0};
         char t[4];
-        dk_design_type_of(p, t);
+        dk_angle_type_of(p, t);
         if (strcmp(t, rq->type))
             continue;
         if (degenerate && p[0] != p[1] && strchr(l, p[1]) < strchr(l, p[0]))
@@ -171,7 +160,7 @@ dk_design_angle_modes(dk_design *d, dk_error *err)
                             labels[0] == 's' ? "slow/fast" : "o/e",
                             labels[0] == 's' ? "ssf" : "ooe");
     char t[4];
-    dk_design_type_of(rq->pol, t);
+    dk_angle_type_of(rq->pol, t);
     if (!strcmp(t, "0"))
         return dk_error_set(err, DK_EINVAL,
                             "--pol %s puts every wave in one mode, which "

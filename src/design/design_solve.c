@@ -54,7 +54,7 @@ qpm_solution(dk_design *d, const dk_waves *w, double temp_c,
     o->temp_c = temp_c;
     o->period_um = period_um;
     memcpy(o->pol, d->qpm.pol, 3);
-    dk_design_type_of(o->pol, o->type);
+    dk_angle_type_of(o->pol, o->type);
     double deff;
     o->deff_pm_per_v = dk_qpm_deff(&d->qpm, &deff, NULL) ? NAN : deff;
     const double lam[3] = {w->signal_um, w->idler_um, w->pump_um};
@@ -182,7 +182,7 @@ solve_broadband(dk_design *d, dk_error *err)
         if (!cands[c])
             continue;
         char t[4];
-        dk_design_type_of(cands[c], t);
+        dk_angle_type_of(cands[c], t);
         if (d->type[0] && strcmp(t, d->type))
             continue;
         for (int sign = 1; sign >= -1; sign -= 2) {
@@ -422,7 +422,7 @@ dk_design_ncpm(dk_design *d, dk_error *err)
         for (int c = 0; c < 8; c++) {
             char p[4] = {l[(c >> 2) & 1], l[(c >> 1) & 1], l[c & 1], 0};
             char t[4];
-            dk_design_type_of(p, t);
+            dk_angle_type_of(p, t);
             if (!strcmp(t, "0") || (d->shg && p[0] != p[1] && p[0] == l[1]))
                 continue;
             if ((d->pol[0] && strcmp(d->pol, p)) ||
