@@ -169,3 +169,30 @@ cli_design_make(const dk_design_request *rq, dk_design *d, int solve)
     cli_take_notes(&d->notes);
     return 0;
 }
+
+int
+cli_design_open(const cli_common *cm, const cli_design_args *a,
+                unsigned allowed, int need_waves, int solve,
+                const char *const usage[], dk_db **db, dk_design **d)
+{
+    *db = NULL;
+    *d = NULL;
+    if (cli_load_db(db))
+        return CLI_FAIL;
+    int rc = CLI_FAIL;
+    dk_design_request rq;
+    const dk_crystal *c = cli_find_crystal(*db, cm->crystal);
+    if (c && !(*d = malloc(sizeof **d)))
+        cli_error("out of memory");
+    if (c && *d &&
+        !(rc = cli_design_request(a, allowed, need_waves, c, cm->crystal,
+                                  cm->set_name, &rq, usage)))
+        rc = cli_design_make(&rq, *d, solve);
+    if (rc) {
+        free(*d);
+        dk_db_free(*db);
+        *d = NULL;
+        *db = NULL;
+    }
+    return rc;
+}

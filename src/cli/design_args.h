@@ -98,6 +98,17 @@ int cli_design_request(const cli_design_args *a, unsigned allowed,
  */
 int cli_design_make(const dk_design_request *rq, dk_design *d, int solve);
 
+/*
+ * The start every design command shares: load the database, find the
+ * crystal of --crystal, read the design options (@allowed, @need_waves as
+ * for cli_design_request) and make the design (solved when @solve) on the
+ * heap. On success *db and *d are the caller's to free (dk_db_free,
+ * free); on failure both are NULL and the exit code is returned.
+ */
+int cli_design_open(const cli_common *cm, const cli_design_args *a,
+                    unsigned allowed, int need_waves, int solve,
+                    const char *const usage[], dk_db **db, dk_design **d);
+
 /* 1 when design option @opt was given. */
 int cli_design_given(const cli_design_args *a, int opt);
 

@@ -124,22 +124,14 @@ cmd_gain(int argc, char **argv)
         return cli_usage_error(gain_usage, "give --intensity (plane wave) or "
                                            "--power (focused beam)");
 
-    dk_db *db = NULL;
-    if (cli_load_db(&db))
-        return CLI_FAIL;
+    dk_db *db;
+    dk_design *dp;
+    if ((rc = cli_design_open(&cm, &da, ALLOWED, 1, 1, gain_usage, &db, &dp)))
+        return rc;
     rc = CLI_FAIL;
+    const dk_crystal *c = dp->crystal;
     dk_plot *fig = NULL;
     json_object *o = NULL;
-    dk_design *dp = malloc(sizeof *dp);
-    const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    dk_design_request rq;
-    if (!c || !dp)
-        goto done;
-    if ((rc = cli_design_request(&da, ALLOWED, 1, c, cm.crystal, cm.set_name,
-                                 &rq, gain_usage)) ||
-        (rc = cli_design_make(&rq, dp, 1)))
-        goto done;
-    rc = CLI_FAIL;
 #define d (*dp)
     int qpm = d.scheme == DK_SCHEME_QPM;
     dk_deff_scaled ds = {0};

@@ -186,20 +186,12 @@ cmd_tolerance(int argc, char **argv)
                                                 "theta, phi, period, tilt",
                                curve);
 
-    dk_db *db = NULL;
-    if (cli_load_db(&db))
-        return CLI_FAIL;
+    dk_db *db;
+    dk_design *dp;
+    if ((rc = cli_design_open(&cm, &da, ALLOWED, 1, 1, tolerance_usage, &db, &dp)))
+        return rc;
     rc = CLI_FAIL;
-    dk_design *dp = malloc(sizeof *dp);
-    const dk_crystal *c = cli_find_crystal(db, cm.crystal);
-    dk_design_request rq;
-    if (!c || !dp)
-        goto done;
-    if ((rc = cli_design_request(&da, ALLOWED, 1, c, cm.crystal, cm.set_name,
-                                 &rq, tolerance_usage)) ||
-        (rc = cli_design_make(&rq, dp, 1)))
-        goto done;
-    rc = CLI_FAIL;
+    const dk_crystal *c = dp->crystal;
 #define d (*dp)
     const dk_dispersion_set *set = d.set;
     int qpm = d.scheme == DK_SCHEME_QPM;
