@@ -31,6 +31,9 @@ typedef struct dk_acceptance {
     int bounded;           /* 1 when both half-maximum points were found */
 } dk_acceptance;
 
+/* sinc x = sin x / x, with its limit 1 at x = 0 (series below 1e-4). */
+double dk_sinc(double x);
+
 /* sinc²(Δk L / 2) for Δk in rad/µm and L in µm. */
 double dk_sinc2(double dk_rad_per_um, double length_um);
 

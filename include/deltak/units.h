@@ -11,8 +11,7 @@
 
 #include "deltak/status.h"
 
-/* Speed of light in vacuum, m/s (exact, SI). */
-#define DK_C_M_PER_S 299792458.0
+#include "deltak/constants.h"   /* DK_C_M_PER_S and the rest */
 
 /* The accepted wavelength forms, for error messages and help. */
 #define DK_WAVELENGTH_FORMS "1064nm, 1.064um, 1.064µm, 9398cm-1, 281.8THz"

@@ -10,12 +10,15 @@
 #define MAX_STEPS 200
 
 double
+dk_sinc(double x)
+{
+    return fabs(x) < 1e-4 ? 1 - x * x / 6 : sin(x) / x;
+}
+
+double
 dk_sinc2(double dk_rad_per_um, double length_um)
 {
-    double u = 0.5 * dk_rad_per_um * length_um;
-    if (fabs(u) < 1e-8)
-        return 1.0 - u * u / 3;
-    double s = sin(u) / u;
+    double s = dk_sinc(0.5 * dk_rad_per_um * length_um);
     return s * s;
 }
 

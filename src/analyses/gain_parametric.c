@@ -54,6 +54,7 @@
  */
 #include <math.h>
 
+#include "deltak/acceptance.h"
 #include "deltak/gain.h"
 #include "deltak/roots.h"
 #include "deltak/units.h"
@@ -81,12 +82,6 @@ nonnegative(double x)
     return isfinite(x) && x >= 0;
 }
 
-/* sinc x = sin x / x, with its limit 1 at 0. */
-static double
-sinc(double x)
-{
-    return fabs(x) < 1e-4 ? 1 - x * x / 6 : sin(x) / x;
-}
 
 dk_status
 dk_opa_gamma_per_mm(double deff_pm_per_v, double n_pump, double n_signal,
@@ -132,7 +127,7 @@ shape(double gamma, double x, double len)
             return NAN;
         s = sinh(g * len) / g;
     } else if (g2 < 0) {
-        s = len * sinc(sqrt(-g2) * len);
+        s = len * dk_sinc(sqrt(-g2) * len);
     } else {
         s = len;
     }
@@ -247,7 +242,7 @@ dk_shg_efficiency(double deff_pm_per_v, double n_fund, double n_sh,
                             ">= 0 (mm), intensity >= 0 (GW/cm2) and finite "
                             "dk (rad/mm)");
     double i = fund_gw_per_cm2 * GW_PER_CM2_TO_W_PER_M2;
-    double s = sinc(dk_rad_per_mm * length_mm / 2);
+    double s = dk_sinc(dk_rad_per_mm * length_mm / 2);
     *eta = low_conversion(deff_pm_per_v, length_mm, fund_um,
                           n_fund * n_fund * n_sh, i) *
            s * s;
@@ -272,7 +267,7 @@ dk_mixing_intensity_gw_per_cm2(double deff_pm_per_v, double n_a, double n_b,
                             "(rad/mm)");
     double ia = a_gw_per_cm2 * GW_PER_CM2_TO_W_PER_M2;
     double ib = b_gw_per_cm2 * GW_PER_CM2_TO_W_PER_M2;
-    double s = sinc(dk_rad_per_mm * length_mm / 2);
+    double s = dk_sinc(dk_rad_per_mm * length_mm / 2);
     double w_per_m2 = low_conversion(deff_pm_per_v, length_mm, out_um,
                                      n_a * n_b * n_out, ia * ib) *
                       s * s;

@@ -15,6 +15,7 @@
 #include <string.h>
 
 #include "deltak/angle.h"
+#include "deltak/constants.h"
 #include "deltak/nonlinear.h"
 #include "deltak/roots.h"
 
@@ -503,7 +504,7 @@ dk_angle_magic_alpha(dk_angle_problem *pb, const char pol[3], double phi_rad,
                             "no noncollinear angle up to %.3g deg (signal %s "
                             "Z than the pump) matches the signal and idler "
                             "group velocities",
-                            alpha_max_rad * 180 / M_PI,
+                            alpha_max_rad / DK_RAD_PER_DEG,
                             mp.sign > 0 ? "farther from" : "nearer to");
     return s;
 }

@@ -22,7 +22,7 @@ static dk_waves
 waves_for(double pump_um, int signal, double target_um)
 {
     dk_waves w = {pump_um, 0, 0};
-    double other = 1 / (1 / pump_um - 1 / target_um);
+    double other = dk_third_wave_um(pump_um, target_um);
     w.signal_um = signal ? target_um : other;
     w.idler_um = signal ? other : target_um;
     return w;

@@ -48,10 +48,11 @@
  */
 #include <math.h>
 
+#include "deltak/constants.h"
 #include "plot_internal.h"
 
-#define PI 3.14159265358979323846
-#define DEG (PI / 180)
+#define PI DK_PI
+#define DEG DK_RAD_PER_DEG
 
 /* D65 reference white, 2° observer (CIE 15:2004), Y = 1. */
 static const double WHITE[3] = {0.95047, 1.0, 1.08883};
