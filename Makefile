@@ -6,7 +6,7 @@
 
 VERSION := 0.1.0
 CC      ?= gcc
-PKGS    := gsl cairo pangocairo yaml-0.1 json-c
+PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
 # `make V=1` shows the full compiler lines.
