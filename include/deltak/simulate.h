@@ -54,16 +54,18 @@
  * pointwise in τ and is integrated by the classical fourth-order
  * Runge–Kutta method with the carrier phase e^{±iΔkz} and the domain sign
  * evaluated exactly at each stage. The scheme is second order in h overall
- * (Strang splitting); the nonlinear part alone is fourth order. Samples at
- * which every field is below 1e-8.5 of the peak input amplitude skip the
- * nonlinear step (its change there is below double rounding).
+ * (Strang splitting); the nonlinear part alone is fourth order. Blocks of
+ * 64 samples in which every field is below 10^−8.5 of the peak input
+ * amplitude skip the nonlinear step (its change there is below double
+ * rounding of the peak).
  *
- * Transverse grid (later). The state holds, for each wave, one block of
- * samples per transverse point (one block now), all transformed by one
- * FFTW plan over the time axis; a transverse grid makes that plan a
- * rank-2 or rank-3 transform over (x, y, τ) and adds the diffraction term
- * −(kx² + ky²)/2k_j(ω) (and spatial walk-off, linear in kx) to D_j. The
- * nonlinear step is pointwise and does not change.
+ * Transverse grid (later). The state is one contiguous block of time
+ * samples per wave, all transformed by one FFTW plan over the time axis
+ * (fftw_plan_many_dft). A transverse grid makes each wave's block (x, y,
+ * τ), the plan a rank-2 or rank-3 transform, and adds the diffraction term
+ * −(kx² + ky²)/2k_j(ω) (and spatial walk-off, linear in kx) to D_j; the
+ * nonlinear step is pointwise and does not change, nor does the stepping
+ * along the domains.
  *
  * Grid rule (automatic). Spectral half-width W_j of each input: Gaussian
  * 3.5 × its intensity FWHM 4 ln2 / τ, sech² 19 / τ (both where the
@@ -85,13 +87,15 @@
  *   0.8 / |Δk|              the carrier phase mismatch (for a first-order
  *                           grating: four steps per domain);
  *   L / 50                  at least 50 steps;
- * then shortened to fit a whole number of steps into each domain.
+ * then shortened to fit a whole number of steps into each domain. When
+ * nothing couples (d_eff = 0) the linear steps are exact and L/50 is kept.
  *
  * Convergence. dk_sim_run runs the crystal at the step h and again at
  * h/2; the change is max over waves of |F_j(h) − F_j(h/2)| / max(F_j(h/2),
  * 1e-9 ΣF_in). Above the tolerance (default 1e-3) it halves again, up to
- * max_halvings times. The reported run is the finest; its error is about
- * a third of the last change (second order).
+ * max_halvings (default 3) halvings in all. The reported run is the
+ * finest; its error is about a third of the last change (second order),
+ * less where the fourth-order nonlinear part dominates.
  *
  * Units: wavelengths µm (vacuum), lengths mm (crystal) and µm (steps,
  * period), time fs, angular frequency rad/fs, k rad/µm, intensity GW/cm²,
@@ -219,7 +223,7 @@ typedef struct dk_sim_options {
     int no_convergence_check;/* 1: one run at the step only */
     double tolerance;        /* allowed relative change on halving the
                               * step, in (0, 0.5); 0: 1e-3 */
-    int max_halvings;        /* 0: 4 */
+    int max_halvings;        /* halvings in all, 1 … 20; 0: 3 */
     int record_points;       /* most z positions recorded; 0: 512 */
     int fft_planning;        /* 0: automatic (measured plans for large
                               * runs), 1: FFTW_MEASURE, 2: FFTW_ESTIMATE */

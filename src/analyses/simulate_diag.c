@@ -79,21 +79,25 @@ fwhm(const double *y, size_t n, double dx)
     return (xr - xl) * dx;
 }
 
-/* a(t) = Σ_k spec_k e^{−iΩ_k t} at any t (band-limited interpolation of
- * the sampled field), Ω_k = k dΩ in FFT order; phasors by recurrence. */
+/* |Σ_k c_k e^{i σ m_k u x}|², m_k = k or k − n (FFT order): the band-
+ * limited interpolation of sampled data between its samples. With the
+ * spectrum as c, u = dΩ and σ = −1 it is the field's intensity at time x;
+ * with the time samples, u = dt and σ = +1, the spectrum at frequency x
+ * (up to a constant factor). Phasors by recurrence. */
 static double
-intensity_at(const double complex *spec, size_t n, double dom, double t)
+power_at(const double complex *c, size_t n, double u, double x, int sigma)
 {
-    const double *x = (const double *)spec;
-    double zr = cos(dom * t), zi = -sin(dom * t);
+    const double *v = (const double *)c;
+    double a = sigma * u * x;
+    double zr = cos(a), zi = sin(a);
     double sr = 0, si = 0, pr = 1, pi = 0;
     for (size_t k = 0; k < n; k++) {
         if (k == n / 2) {
-            double ph = 0.5 * (double)n * dom * t;
+            double ph = -0.5 * (double)n * a;
             pr = cos(ph), pi = sin(ph);
         }
-        sr += x[2 * k] * pr - x[2 * k + 1] * pi;
-        si += x[2 * k] * pi + x[2 * k + 1] * pr;
+        sr += v[2 * k] * pr - v[2 * k + 1] * pi;
+        si += v[2 * k] * pi + v[2 * k + 1] * pr;
         double qr = pr * zr - pi * zi;
         pi = pr * zi + pi * zr;
         pr = qr;
@@ -101,41 +105,43 @@ intensity_at(const double complex *spec, size_t n, double dom, double t)
     return sr * sr + si * si;
 }
 
-/* Refine the FWHM of a pulse sampled too coarsely for interpolation
- * (fewer than REFINE_BELOW samples across): the peak by golden-section
- * search and each half-maximum crossing by the secant method, on the
- * exact band-limited intensity. @y is |a|² in ascending time, @spec the
- * spectrum of a in FFT order (a(τ) = Σ ã e^{−iΩτ}). */
+/* The FWHM of y (samples at x = (i − n/2) dx), refined when fewer than
+ * REFINE_BELOW samples lie across it: the peak by golden-section search
+ * and each half-maximum crossing by the secant method on the band-limited
+ * interpolation power_at(c, n, u, x, σ), scaled to y at the top sample. */
 static double
-fwhm_refined(const double *y, size_t n, double dt, const double complex *spec)
+fwhm_refined(const double *y, size_t n, double dx, const double complex *c,
+             double u, int sigma)
 {
-    double w = fwhm(y, n, dt);
-    if (!isfinite(w) || w >= REFINE_BELOW * dt)
+    double w = fwhm(y, n, dx);
+    if (!isfinite(w) || w >= REFINE_BELOW * dx)
         return w;
-    double dom = 2 * M_PI / (n * dt);
     size_t im = 0;
     for (size_t i = 1; i < n; i++)
         if (y[i] > y[im])
             im = i;
-    /* the peak */
+    double x0 = ((double)im - (double)(n / 2)) * dx;
+    double p0 = power_at(c, n, u, x0, sigma);
+    if (!(p0 > 0))
+        return w;
+    double scale = y[im] / p0;
+#define AT(x) (scale * power_at(c, n, u, (x), sigma))
     const double g = 0.5 * (sqrt(5.0) - 1);
-    double t0 = ((double)im - (double)(n / 2)) * dt;
-    double a = t0 - dt, b = t0 + dt;
-    double c = b - g * (b - a), d = a + g * (b - a);
-    double fc = intensity_at(spec, n, dom, c), fd = intensity_at(spec, n, dom, d);
+    double a = x0 - dx, b = x0 + dx;
+    double xc = b - g * (b - a), xd = a + g * (b - a);
+    double fc = AT(xc), fd = AT(xd);
     for (int it = 0; it < 40; it++) {
         if (fc > fd) {
-            b = d, d = c, fd = fc;
-            c = b - g * (b - a);
-            fc = intensity_at(spec, n, dom, c);
+            b = xd, xd = xc, fd = fc;
+            xc = b - g * (b - a);
+            fc = AT(xc);
         } else {
-            a = c, c = d, fc = fd;
-            d = a + g * (b - a);
-            fd = intensity_at(spec, n, dom, d);
+            a = xc, xc = xd, fc = fd;
+            xd = a + g * (b - a);
+            fd = AT(xd);
         }
     }
     double half = 0.5 * fmax(fmax(fc, fd), y[im]);
-    /* the crossings, from the sampled estimate */
     size_t lo = 0, hi = n - 1;
     while (y[lo] < half)
         lo++;
@@ -145,21 +151,22 @@ fwhm_refined(const double *y, size_t n, double dt, const double complex *spec)
         return w;
     double edge[2] = {crossing(y, n, lo, half), crossing(y, n, hi + 1, half)};
     for (int e = 0; e < 2; e++) {
-        double x0 = (edge[e] - (double)(n / 2)) * dt, x1 = x0 + 0.01 * dt;
-        double f0 = intensity_at(spec, n, dom, x0) - half;
-        double f1 = intensity_at(spec, n, dom, x1) - half;
+        double s0 = (edge[e] - (double)(n / 2)) * dx, s1 = s0 + 0.01 * dx;
+        double f0 = AT(s0) - half, f1 = AT(s1) - half;
         for (int it = 0; it < 8 && f1 != f0; it++) {
-            double x2 = x1 - f1 * (x1 - x0) / (f1 - f0);
-            x0 = x1, f0 = f1;
-            x1 = x2;
-            f1 = intensity_at(spec, n, dom, x1) - half;
-            if (fabs(x1 - x0) < 1e-9 * dt)
+            double s2 = s1 - f1 * (s1 - s0) / (f1 - f0);
+            s0 = s1, f0 = f1;
+            s1 = s2;
+            f1 = AT(s1) - half;
+            if (fabs(s1 - s0) < 1e-9 * dx)
                 break;
         }
-        if (fabs(x1 / dt + (double)(n / 2) - edge[e]) < 1.5)
-            edge[e] = x1 / dt + (double)(n / 2);
+        double idx = s1 / dx + (double)(n / 2);
+        if (fabs(idx - edge[e]) < 1.5)
+            edge[e] = idx;
     }
-    return (edge[1] - edge[0]) * dt;
+#undef AT
+    return (edge[1] - edge[0]) * dx;
 }
 
 static double
@@ -194,10 +201,9 @@ quantiles(const double *S, size_t n, size_t *lo, size_t *hi)
     }
 }
 
-/* The spectrum (ascending) of the FFT-ordered spectra in @spec (already
- * normalised by 1/n) of stored wave @j into @S (J/cm² per THz), and the
- * transform-limited temporal intensity into s->scratch is done by the
- * caller. Returns the photon number per cm². */
+/* The spectrum of stored wave @j, @spec in FFT order and normalised by
+ * 1/n, into @S (ascending, J/cm² per THz). Returns its photon number per
+ * cm². */
 static double
 fill_spectrum(const dk_sim *s, int j, const double complex *spec, double *S)
 {
@@ -214,30 +220,31 @@ fill_spectrum(const dk_sim *s, int j, const double complex *spec, double *S)
     return photons;
 }
 
-/* Transform-limited FWHM of the spectra of every stored wave in @spec
- * (normalised, FFT order), through s->scratch. */
+/* Transform-limited FWHM of each stored wave with the spectra @spec
+ * (normalised, FFT order): |spec| back to time through s->scratch, the
+ * magnitudes kept for the refinement. */
 static void
 transform_limits(dk_sim *s, const double complex *spec, double *out)
 {
-    size_t n = s->n;
-    for (size_t i = 0; i < (size_t)s->nw * n; i++)
-        s->scratch[i] = cabs(spec[i]);
-    fftw_execute_dft(s->to_time, s->scratch, s->scratch);
-    double *y = malloc(n * sizeof(double));
-    double complex *a2 = fftw_alloc_complex(n);
-    for (int j = 0; j < s->nw; j++) {
+    size_t n = s->n, total = (size_t)s->nw * n;
+    for (int j = 0; j < s->nw; j++)
         out[j] = NAN;
-        if (!y || !a2)
-            continue;
-        const double complex *a = s->scratch + (size_t)j * n;
-        for (size_t i = 0; i < n; i++)
-            y[i] = norm2(a[(i + n / 2) % n]);
-        for (size_t i = 0; i < n; i++)
-            a2[i] = cabs(spec[(size_t)j * n + i]);
-        out[j] = fwhm_refined(y, n, s->dt, a2);
+    double complex *mag = fftw_alloc_complex(total);
+    double *y = malloc(n * sizeof(double));
+    if (mag && y) {
+        for (size_t i = 0; i < total; i++)
+            mag[i] = s->scratch[i] = cabs(spec[i]);
+        fftw_execute_dft(s->to_time, s->scratch, s->scratch);
+        double dom = 2 * M_PI / (n * s->dt);
+        for (int j = 0; j < s->nw; j++) {
+            const double complex *a = s->scratch + (size_t)j * n;
+            for (size_t i = 0; i < n; i++)
+                y[i] = norm2(a[(i + n / 2) % n]);
+            out[j] = fwhm_refined(y, n, s->dt, mag + (size_t)j * n, dom, -1);
+        }
     }
+    fftw_free(mag);
     free(y);
-    fftw_free(a2);
 }
 
 dk_status
@@ -277,9 +284,25 @@ sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err)
         r->fluence_j_per_cm2[s->role[j]] = f;
     }
 
-    /* Exit: spectra (s->field), then the temporal fields. */
+    /* Fields: exit spectra (s->field) and times, entrance times
+     * (s->input) and spectra. */
+    size_t cells = nw * n;
+    double complex *t_out = fftw_alloc_complex(cells);
+    double complex *f_in = fftw_alloc_complex(cells);
+    if (!t_out || !f_in) {
+        fftw_free(t_out);
+        fftw_free(f_in);
+        return dk_error_set(err, DK_ENOMEM, "out of memory for the result");
+    }
+    memcpy(t_out, s->field, cells * sizeof(double complex));
+    fftw_execute_dft(s->to_time, t_out, t_out);
+    memcpy(f_in, s->input, cells * sizeof(double complex));
+    fftw_execute_dft(s->to_freq, f_in, f_in);
+    for (size_t i = 0; i < cells; i++)
+        f_in[i] /= (double)n;
     double tl_out[3], tl_in[3], ph_out[3], ph_in[3];
     transform_limits(s, s->field, tl_out);
+    transform_limits(s, f_in, tl_in);
     double in_total = 0, absorbed = 0;
     for (int j = 0; j < s->nw; j++) {
         dk_sim_wave_out *w = &r->wave[s->role[j]];
@@ -292,7 +315,11 @@ sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err)
         w->spectral_phase_out_rad = pool + 6 * n;
         pool += 7 * n;
         const double complex *spec = s->field + (size_t)j * n;
+        const double complex *a_out = t_out + (size_t)j * n;
+        const double complex *a_in = s->input + (size_t)j * n;
         ph_out[j] = fill_spectrum(s, j, spec, w->spectrum_out_j_per_cm2_thz);
+        ph_in[j] = fill_spectrum(s, j, f_in + (size_t)j * n,
+                                 w->spectrum_in_j_per_cm2_thz);
         double smax = 0;
         for (size_t i = 0; i < n; i++)
             smax = fmax(smax, w->spectrum_out_j_per_cm2_thz[i]);
@@ -304,42 +331,16 @@ sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err)
                 w->spectrum_out_j_per_cm2_thz[i] > PHASE_FLOOR * smax
                     ? carg(spec[k])
                     : 0;
+            w->intensity_out_gw_per_cm2[i] = norm2(a_out[k]);
+            w->phase_out_rad[i] = norm2(a_out[k]) > 0 ? carg(a_out[k]) : 0;
+            w->intensity_in_gw_per_cm2[i] = norm2(a_in[k]);
         }
         in_total += s->fluence_in[j];
         absorbed += s->absorbed[j];
     }
-    memcpy(s->scratch, s->field, nw * n * sizeof(double complex));
-    fftw_execute_dft(s->to_time, s->scratch, s->scratch);
-    for (int j = 0; j < s->nw; j++) {
-        dk_sim_wave_out *w = &r->wave[s->role[j]];
-        const double complex *a = s->scratch + (size_t)j * n;
-        for (size_t i = 0; i < n; i++) {
-            size_t k = (i + n / 2) % n;
-            w->intensity_out_gw_per_cm2[i] = norm2(a[k]);
-            w->phase_out_rad[i] = norm2(a[k]) > 0 ? carg(a[k]) : 0;
-        }
-    }
-    /* Entrance: the input fields, their spectra. */
-    memcpy(s->scratch, s->input, nw * n * sizeof(double complex));
-    fftw_execute_dft(s->to_freq, s->scratch, s->scratch);
-    for (size_t i = 0; i < nw * n; i++)
-        s->scratch[i] /= (double)n;
-    for (int j = 0; j < s->nw; j++) {
-        dk_sim_wave_out *w = &r->wave[s->role[j]];
-        ph_in[j] = fill_spectrum(s, j, s->scratch + (size_t)j * n,
-                                 w->spectrum_in_j_per_cm2_thz);
-        const double complex *a = s->input + (size_t)j * n;
-        for (size_t i = 0; i < n; i++)
-            w->intensity_in_gw_per_cm2[i] = norm2(a[(i + n / 2) % n]);
-    }
-    double complex *spec_in = fftw_alloc_complex(nw * n);
-    if (!spec_in)
-        return dk_error_set(err, DK_ENOMEM, "out of memory for the result");
-    memcpy(spec_in, s->scratch, nw * n * sizeof(double complex));
-    transform_limits(s, spec_in, tl_in);
 
     /* Scalars. */
-    double nu_step = PER_FS_TO_THZ / (n * s->dt), nyq = M_PI / s->dt;
+    double nyq = M_PI / s->dt;
     for (int j = 0; j < s->nw; j++) {
         dk_sim_wave_out *w = &r->wave[s->role[j]];
         w->present = 1;
@@ -381,16 +382,19 @@ sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err)
             r->warnings |= DK_SIM_WARN_TIME_EDGE;
         if (w->spectral_edge_fraction > EDGE_WARN)
             r->warnings |= DK_SIM_WARN_SPECTRAL_EDGE;
+        double dom = 2 * M_PI / (n * s->dt), to_thz = PER_FS_TO_THZ / (2 * M_PI);
         w->fwhm_in_fs = fwhm_refined(w->intensity_in_gw_per_cm2, n, s->dt,
-                                     spec_in + (size_t)j * n);
+                                     f_in + (size_t)j * n, dom, -1);
         w->fwhm_out_fs = fwhm_refined(w->intensity_out_gw_per_cm2, n, s->dt,
-                                      s->field + (size_t)j * n);
+                                      s->field + (size_t)j * n, dom, -1);
         w->transform_limit_in_fs = tl_in[j];
         w->transform_limit_out_fs = tl_out[j];
         w->spectral_fwhm_in_thz =
-            fwhm(w->spectrum_in_j_per_cm2_thz, n, nu_step);
+            to_thz * fwhm_refined(w->spectrum_in_j_per_cm2_thz, n, dom,
+                                  s->input + (size_t)j * n, s->dt, 1);
         w->spectral_fwhm_out_thz =
-            fwhm(w->spectrum_out_j_per_cm2_thz, n, nu_step);
+            to_thz * fwhm_refined(w->spectrum_out_j_per_cm2_thz, n, dom,
+                                  t_out + (size_t)j * n, s->dt, 1);
         /* The band holding the energy, in and out. */
         double nu_lo = INFINITY, nu_hi = -INFINITY;
         const double *S2[2] = {w->spectrum_in_j_per_cm2_thz,
@@ -418,7 +422,8 @@ sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err)
             w->band_um[0] = w->band_um[1] = NAN;
         }
     }
-    fftw_free(spec_in);
+    fftw_free(t_out);
+    fftw_free(f_in);
     if (absorbed > ABSORB_WARN * in_total)
         r->warnings |= DK_SIM_WARN_ABSORBED;
     for (int j = 0; j < 3; j++)
