@@ -4,7 +4,8 @@
  *   simulate.c         validation, dk_sim_new/free, dk_sim_run and the
  *                      convergence check;
  *   simulate_grid.c    carriers, the grid rule, k(ω) over the grid, the
- *                      input pulses, the step rule;
+ *                      step rule;
+ *   simulate_pulse.c   the input pulses and the widths they need;
  *   simulate_step.c    the split-step propagation;
  *   simulate_diag.c    fluences, spectra, durations, photon numbers;
  *   simulate_crystal.c k(ω) from the crystal database.
@@ -108,6 +109,13 @@ dk_status sim_setup_grid(dk_sim *s, const dk_sim_problem *p,
                          const dk_sim_options *opt, dk_error *err);
 void sim_choose_step(dk_sim *s);
 double sim_fluence(const double complex *a, size_t n, double dt);
+
+/* simulate_pulse.c */
+int sim_pulsed(const dk_sim_pulse *in);
+double sim_input_band(const dk_sim *s, int j, const dk_sim_pulse *in);
+double sim_input_extent(const dk_sim_pulse *in, double band);
+dk_status sim_build_inputs(dk_sim *s, const dk_sim_problem *p, double *tedge,
+                           double *sedge, dk_error *err);
 
 /* simulate_step.c */
 long sim_count_steps(const dk_sim *s, double max_step_um);
