@@ -251,7 +251,8 @@ typedef enum dk_sim_step_rule {
                                        * questionable */
 
 /* One wave's results. Arrays have dk_sim_result.samples entries, in
- * ascending time (dk_sim_result.time_fs) or ascending frequency. */
+ * ascending time (dk_sim_result.time_fs) or ascending frequency; they are
+ * NULL for an absent wave (wave[1] of a degenerate run). */
 typedef struct dk_sim_wave_out {
     int present;                  /* 0 for wave[1] of a degenerate run */
     double lambda_um;             /* carrier */

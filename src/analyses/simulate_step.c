@@ -45,7 +45,7 @@ typedef struct step_seq {
     long domain;      /* index of the current domain */
     double start;     /* its start, µm */
     double h;         /* its step length, µm */
-    int nsub, sub;    /* steps in it, steps taken */
+    long nsub, sub;   /* steps in it, steps taken */
     int sign;         /* sign of d in it */
     int done;
 } step_seq;
@@ -78,9 +78,9 @@ seq_domain(step_seq *q, long d)
         if (start + nominal > L - WALL_TOL * per)
             nominal = L - start; /* the last domain, cut */
     }
-    int nsub = (int)ceil(nominal / q->hmax * (1 - 1e-12));
-    if (nsub < 1)
-        nsub = 1;
+    double want = ceil(nominal / q->hmax * (1 - 1e-12));
+    /* more than MAX_STEPS in one domain is refused by the caller anyway */
+    long nsub = want < 1 ? 1 : want > MAX_STEPS ? MAX_STEPS + 1 : (long)want;
     q->domain = d;
     q->start = start;
     q->h = nominal / nsub;
