@@ -128,7 +128,8 @@
 #include "deltak/crystal.h"
 #include "deltak/status.h"
 
-/* Largest time grid, samples (memory: about 200 bytes per sample). */
+/* Largest time grid, samples (memory: up to about 1 kB per sample with
+ * three waves, the cached propagators included). */
 #define DK_SIM_MAX_SAMPLES ((size_t)1 << 20)
 
 /*
