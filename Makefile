@@ -6,7 +6,7 @@
 
 VERSION := 0.1.0
 CC      ?= gcc
-PKGS    := gsl cairo pangocairo yaml-0.1 json-c
+PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
 # `make V=1` shows the full compiler lines.
@@ -98,10 +98,10 @@ check: $(BUILD)/deltak $(TEST_BIN)
 demo: $(BUILD)/deltak
 	@sh examples/demo.sh $(BUILD)/deltak
 
-$(BUILD)/bench_index: tests/bench/bench_index.c $(BUILD)/libdeltak.a
+$(BUILD)/bench_%: tests/bench/bench_%.c $(BUILD)/libdeltak.a
 	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $< $(BUILD)/libdeltak.a $(LDLIBS_ALL)
 
-bench: $(BUILD)/deltak $(BUILD)/bench_index
+bench: $(BUILD)/deltak $(BUILD)/bench_index $(BUILD)/bench_simulate
 	@sh tests/bench/run.sh $(BUILD)/deltak
 
 plots: $(BUILD)/deltak

@@ -6,6 +6,9 @@ DK=${1:-build/deltak}
 BIN=$(dirname "$DK")/bench_index
 make -s "$BIN" >/dev/null 2>&1 || { echo "error: cannot build $BIN"; exit 1; }
 "$BIN"
+SIM=$(dirname "$DK")/bench_simulate
+make -s "$SIM" >/dev/null 2>&1 || { echo "error: cannot build $SIM"; exit 1; }
+"$SIM"
 if command -v valgrind >/dev/null 2>&1; then
     out=$(valgrind --tool=callgrind --callgrind-out-file=/dev/null "$DK" index \
           --crystal MgO:LN --wavelength 1064nm --temp 40 --json 2>&1 >/dev/null |
