@@ -504,6 +504,20 @@ paths_are_quoted_escaped(void **state)
 }
 
 static void
+too_many_aliases(void **state)
+{
+    (void)state;
+    make_scratch();
+    char list[1024] = "aliases: [A0";
+    for (int i = 1; i <= DK_CRYSTAL_MAX_ALIASES; i++)
+        snprintf(list + strlen(list), sizeof list - strlen(list), ", A%d", i);
+    strcat(list, "]");
+    const char *p = minimal_with("aliases.yaml", "aliases: [TST]", list);
+    REFUSED(p, DK_EPARSE, "more than 32 aliases");
+    remove_scratch();
+}
+
+static void
 too_many_files(void **state)
 {
     (void)state;
@@ -518,7 +532,7 @@ too_many_files(void **state)
     assert_int_equal(dk_db_load(scratch, &db, &err), DK_OK);
     /* One error per empty file read, and one for the rest. */
     assert_int_equal(db->nerrors, DK_DB_MAX_FILES + 1);
-    assert_non_null(strstr(db->errors[0], "more than 1000 .yaml files"));
+    assert_non_null(strstr(db->errors[0], "more than 256 .yaml files"));
     dk_db_free(db);
     remove_scratch();
 }
@@ -540,6 +554,7 @@ main(void)
         cmocka_unit_test(special_files_are_refused_without_blocking),
         cmocka_unit_test(control_characters_are_refused),
         cmocka_unit_test(paths_are_quoted_escaped),
+        cmocka_unit_test(too_many_aliases),
         cmocka_unit_test(too_many_files),
     };
     return cmocka_run_group_tests_name("crystal_load", tests, NULL, NULL);

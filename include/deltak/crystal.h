@@ -100,8 +100,8 @@ typedef struct dk_db {
  * column C: ..." for any schema error (missing field, wrong type, unknown
  * key or formula, duplicate key, non-finite number, control characters
  * in a text, not a crystal file) and for a file beyond the loader's limits
- * (256 kB, 32 levels of nesting, 20000 nodes, no YAML aliases: see
- * src/data/crystal_load.h); DK_EINVAL for an empty @path; DK_ENOMEM.
+ * (256 kB, 32 levels of nesting, 20000 nodes, 32 aliases, no YAML
+ * aliases (*name): see src/data/crystal_load.h); DK_EINVAL for an empty @path; DK_ENOMEM.
  * Messages never quote the content of a file that is not a crystal file,
  * and escape control characters in what they quote. On error *out is
  * unchanged.
@@ -128,7 +128,7 @@ void dk_crystal_free(dk_crystal *c);
 dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
 
 /* The most crystal files dk_db_load() reads from one folder. */
-#define DK_DB_MAX_FILES 1000
+#define DK_DB_MAX_FILES 256
 
 /* Free @db and its crystals; NULL does nothing. */
 void dk_db_free(dk_db *db);

@@ -304,6 +304,12 @@ get_string_list(ctx *c, yaml_node_t *map, const char *key,
     if (n->type != YAML_SEQUENCE_NODE)
         return fail(c, n, "'%s' must be a list of texts", key);
     int len = seq_len(n);
+    /* Every name of every crystal is compared with every other's when a
+     * folder loads: keep the names few. */
+    if (strcmp(key, "aliases") == 0 && len > DK_CRYSTAL_MAX_ALIASES)
+        return fail(c, n, "more than %d aliases (the limit for a crystal "
+                          "file)",
+                    DK_CRYSTAL_MAX_ALIASES);
     const char **list = dk_arena_alloc(c->arena, sizeof(char *) * (len + 1));
     if (!list)
         return dk_error_set(c->err, DK_ENOMEM, "out of memory");

@@ -11,12 +11,16 @@
 
 /*
  * Limits of one crystal file. The shipped files are below 10 kB, nest 8
- * levels deep and have fewer than 600 nodes (2026): the limits leave a
- * wide margin and keep a hostile file from stalling every command.
+ * levels deep, have fewer than 600 nodes and 6 aliases (2026): the
+ * limits leave a wide margin and keep a hostile file from stalling every
+ * command (with DK_DB_MAX_FILES files, a folder costs at most a few
+ * seconds to load; the name-clash check compares at most
+ * (256·33)²/2 names).
  */
 #define DK_CRYSTAL_MAX_BYTES (256 * 1024)
 #define DK_CRYSTAL_MAX_DEPTH 32
 #define DK_CRYSTAL_MAX_NODES 20000
+#define DK_CRYSTAL_MAX_ALIASES 32
 
 /*
  * dk_crystal_load_buffer:
