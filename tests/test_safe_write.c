@@ -324,6 +324,54 @@ devices_and_fifos_are_written_in_place(void **state)
 }
 
 static void
+standard_output_by_name(void **state)
+{
+    (void)state;
+    /* "--plot /dev/stdout > file": the figure goes where the output
+     * stands, between what was printed before and after; the file is
+     * neither replaced nor overwritten from its start. */
+    const char *d = subdir("stdout");
+    const char *out = in(d, "out.txt");
+    static const char *const names[] = {"/dev/stdout", "/dev/fd/1",
+                                        "/proc/self/fd/1"};
+    for (size_t i = 0; i < sizeof names / sizeof names[0]; i++) {
+        int fd = open(out, O_WRONLY | O_CREAT | O_TRUNC, 0644);
+        assert_true(fd >= 0);
+        struct stat before;
+        assert_int_equal(fstat(fd, &before), 0);
+        pid_t pid = fork();
+        assert_true(pid >= 0);
+        if (pid == 0) {
+            if (dup2(fd, 1) < 0 || write(1, "head\n", 5) != 5)
+                _exit(2);
+            dk_safe_file *f;
+            if (dk_safe_write_open(names[i], &f, NULL) ||
+                !dk_safe_write_is_direct(f))
+                _exit(3);
+            fputs("body\n", dk_safe_write_stream(f));
+            if (dk_safe_write_commit(f, NULL))
+                _exit(4);
+            _exit(write(1, "tail\n", 5) == 5 ? 0 : 5);
+        }
+        close(fd);
+        int status;
+        assert_int_equal(waitpid(pid, &status, 0), pid);
+        assert_true(WIFEXITED(status));
+        assert_int_equal(WEXITSTATUS(status), 0);
+        assert_string_equal(read_file(out), "head\nbody\ntail\n");
+        struct stat after;
+        assert_int_equal(stat(out, &after), 0);
+        assert_true(after.st_ino == before.st_ino);
+    }
+    assert_int_equal(entries(d, NULL), 1);
+    /* A descriptor that is not open. */
+    dk_safe_file *f = NULL;
+    dk_error err = {0};
+    assert_int_equal(dk_safe_write_open("/dev/fd/987", &f, &err), DK_EIO);
+    assert_non_null(strstr(err.msg, "/dev/fd/987"));
+}
+
+static void
 links_to_files_and_to_nothing(void **state)
 {
     (void)state;
@@ -504,6 +552,7 @@ main(void)
         cmocka_unit_test(temporary_names_are_unpredictable),
         cmocka_unit_test(planted_links_are_not_followed),
         cmocka_unit_test(devices_and_fifos_are_written_in_place),
+        cmocka_unit_test(standard_output_by_name),
         cmocka_unit_test(links_to_files_and_to_nothing),
         cmocka_unit_test(too_many_open_files),
         cmocka_unit_test(signals_remove_temporaries),

@@ -13,9 +13,12 @@
  *   regular file               atomically (temporary file in ITS folder);
  *                              the link itself stays
  *   a device, FIFO or socket,  written directly, in place: never replaced
- *   or a link to one           by a regular file ("/dev/null",
- *   (/dev/null, /dev/stdout)   "/dev/stdout" and pipes work as expected);
- *                              an abort cannot take back what was written
+ *   or a link to one           by a regular file; an abort cannot take
+ *   (/dev/null, a named pipe)  back what was written
+ *   /dev/stdout, /dev/stderr,  written to a copy of that descriptor, where
+ *   /dev/fd/N, /proc/self/fd/N the program's output stands (also when it
+ *                              is redirected to a file); flush the
+ *                              program's own stdout first
  *   a folder                   refused (DK_EIO)
  *   a link to nothing          refused (DK_EIO): the link would be
  *                              replaced, or a file created elsewhere
@@ -62,7 +65,8 @@ dk_status dk_safe_write_open(const char *path, dk_safe_file **out,
 /* The stream to write to (binary); valid until commit or abort. */
 FILE *dk_safe_write_stream(dk_safe_file *f);
 
-/* 1 when @f writes in place to a device, FIFO or socket, else 0. */
+/* 1 when @f writes in place (a device, FIFO, socket or a numbered
+ * descriptor such as /dev/stdout), else 0. */
 int dk_safe_write_is_direct(const dk_safe_file *f);
 
 /*

@@ -176,15 +176,46 @@ free_file(dk_safe_file *f)
     free(f);
 }
 
-/* Open the existing non-regular @path for writing in place. */
+/*
+ * The descriptor that @path names by number: "/dev/stdout" (1),
+ * "/dev/stderr" (2), "/dev/fd/N", "/proc/self/fd/N"; else -1. Opening such
+ * a path anew would start at offset 0 of a redirected file (Linux opens
+ * the file again rather than sharing the descriptor); writing to a copy of
+ * the descriptor continues where the program's output stands.
+ */
+static int
+numbered_stream(const char *path)
+{
+    if (strcmp(path, "/dev/stdout") == 0)
+        return 1;
+    if (strcmp(path, "/dev/stderr") == 0)
+        return 2;
+    const char *num = NULL;
+    if (strncmp(path, "/dev/fd/", 8) == 0)
+        num = path + 8;
+    else if (strncmp(path, "/proc/self/fd/", 14) == 0)
+        num = path + 14;
+    if (!num || *num < '0' || *num > '9')
+        return -1;
+    long n = 0;
+    for (; *num >= '0' && *num <= '9' && n < INT_MAX / 10; num++)
+        n = 10 * n + (*num - '0');
+    return *num ? -1 : (int)n;
+}
+
+/* Write in place: to a copy of the numbered descriptor @path names, or to
+ * the existing non-regular @path. */
 static dk_status
 open_direct(dk_safe_file *f, const char *path, dk_error *err)
 {
-    int fd = open(path, O_WRONLY | O_NOCTTY | O_CLOEXEC);
+    int stream = numbered_stream(path);
+    int fd = stream >= 0 ? fcntl(stream, F_DUPFD_CLOEXEC, 3)
+                         : open(path, O_WRONLY | O_NOCTTY | O_CLOEXEC);
     if (fd < 0)
         return io_error(f->shown, strerror(errno), err);
     struct stat st;
-    if (fstat(fd, &st) != 0 || S_ISREG(st.st_mode) || S_ISDIR(st.st_mode)) {
+    if (fstat(fd, &st) != 0 || S_ISDIR(st.st_mode) ||
+        (stream < 0 && S_ISREG(st.st_mode))) {
         close(fd);
         return io_error(f->shown, "it changed while being opened", err);
     }
@@ -301,7 +332,9 @@ dk_safe_write_open(const char *path, dk_safe_file **out, dk_error *err)
 
     dk_status s;
     struct stat lst, st;
-    if (lstat(path, &lst) != 0) {
+    if (numbered_stream(path) >= 0) {
+        s = open_direct(f, path, err);
+    } else if (lstat(path, &lst) != 0) {
         if (errno != ENOENT)
             s = io_error(f->shown, strerror(errno), err);
         else
