@@ -114,10 +114,16 @@ typedef struct dk_db {
  * @path: a crystal YAML file
  * @out: on success a new crystal, to be freed with dk_crystal_free()
  *
- * Returns: DK_OK; DK_EIO if the file cannot be read; DK_EPARSE with
- * "cannot load 'PATH': line L, column C: ..." for any schema error
- * (missing field, wrong type, unknown key or formula, duplicate key,
- * non-finite number). On error *out is unchanged.
+ * Returns: DK_OK; DK_EIO if the file cannot be read or is not a regular
+ * file (or a link to one); DK_EPARSE with "cannot load 'PATH': line L,
+ * column C: ..." for any schema error (missing field, wrong type, unknown
+ * key or formula, duplicate key, non-finite number, control characters
+ * in a text, not a crystal file) and for a file beyond the loader's limits
+ * (256 kB, 32 levels of nesting, 20000 nodes, 32 aliases, no YAML
+ * aliases (*name): see src/data/crystal_load.h); DK_EINVAL for an empty @path; DK_ENOMEM.
+ * Messages never quote the content of a file that is not a crystal file,
+ * and escape control characters in what they quote. On error *out is
+ * unchanged.
  */
 dk_status dk_crystal_load(const char *path, dk_crystal **out, dk_error *err);
 
@@ -131,11 +137,17 @@ void dk_crystal_free(dk_crystal *c);
  *
  * A file that fails to load is recorded in (*out)->errors and skipped;
  * two files claiming the same name or alias are an error of the later one.
+ * Files are read in name order; hidden files are skipped; at most
+ * DK_DB_MAX_FILES files are read (the rest is one error in the list).
+ * An empty folder gives an empty database.
  *
  * Returns: DK_OK (even with skipped files); DK_EIO if @dir cannot be read;
  * DK_ENOMEM.
  */
 dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
+
+/* The most crystal files dk_db_load() reads from one folder. */
+#define DK_DB_MAX_FILES 256
 
 /* Free @db and its crystals; NULL does nothing. */
 void dk_db_free(dk_db *db);
