@@ -77,7 +77,7 @@ typedef struct dk_sweep {
 
 /* One curve: NaN in y breaks the line. */
 typedef struct dk_series {
-    char label[64];      /* UTF-8 legend text, may be empty */
+    char label[96];      /* UTF-8 legend text, may be empty */
     int family;          /* index of the family member, -1 if none */
     int branch;          /* root branch (solve) or component (GVM) */
     int wave;            /* for DK_VAR_WAVELENGTHS: 0 signal, 1 idler; -1 */

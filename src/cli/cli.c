@@ -13,6 +13,7 @@
 #include "deltak/constants.h"
 #include "deltak/design.h"
 #include "deltak/material.h"
+#include "deltak/text.h"
 #include "deltak/units.h"
 
 /* Everything the answer rests on: design notes and the command's own
@@ -338,20 +339,21 @@ cli_parse_range(const char *s, int wavelengths, double r[2], dk_error *err)
 }
 
 int
-cli_common_option(int ch, cli_common *cm, const char *const usage[])
+cli_common_option(int ch, const char *arg, cli_common *cm,
+                  const char *const usage[])
 {
     switch (ch) {
     case 'c':
         if (cm->crystal)
             return cli_usage_error(usage, "--crystal is given twice; give "
                                           "it once");
-        cm->crystal = optarg;
+        cm->crystal = arg;
         return 1;
     case 'd':
         if (cm->set_name)
             return cli_usage_error(usage, "--dispersion is given twice; "
                                           "give it once");
-        cm->set_name = optarg;
+        cm->set_name = arg;
         return 1;
     case 'a': cm->all = 1; return 1;
     case 'j': cm->json = 1; return 1;
@@ -364,9 +366,8 @@ int
 cli_common_finish(const cli_common *cm, int argc, char **argv, int allow_all,
                   const char *const usage[])
 {
-    if (optind < argc)
-        return cli_usage_error(usage, "unexpected argument '%s'",
-                               argv[optind]);
+    (void)argc;
+    (void)argv;
     if (!cm->crystal)
         return cli_usage_error(usage, "--crystal is required");
     if (cm->json && cm->csv)
@@ -381,12 +382,6 @@ cli_common_finish(const cli_common *cm, int argc, char **argv, int allow_all,
     return 0;
 }
 
-int
-cli_bad_option(char **argv, const char *const usage[])
-{
-    return cli_usage_error(usage, "unknown or incomplete option '%s'",
-                           argv[optind - 1]);
-}
 
 /* Strict reading of a plain number: no empty text, NaN, infinity,
  * hexadecimal form or trailing characters. */
@@ -473,4 +468,32 @@ cli_flags_text(FILE *f, unsigned range, int shg)
     if (range)
         fprintf(f, "  [extrapolated: %s]\n",
                 dk_range_words(range, shg, buf, sizeof buf));
+}
+
+int
+cli_edit_distance(const char *a, const char *b)
+{
+    size_t la = strlen(a), lb = strlen(b);
+    if (la > 64 || lb > 64)
+        return 99;
+    int prev[65], cur[65];
+    for (size_t j = 0; j <= lb; j++)
+        prev[j] = (int)j;
+    for (size_t i = 1; i <= la; i++) {
+        cur[0] = (int)i;
+        for (size_t j = 1; j <= lb; j++) {
+            int sub = prev[j - 1] + (a[i - 1] != b[j - 1]);
+            int del = prev[j] + 1, ins = cur[j - 1] + 1;
+            cur[j] = sub < del ? (sub < ins ? sub : ins)
+                               : (del < ins ? del : ins);
+        }
+        memcpy(prev, cur, sizeof(int) * (lb + 1));
+    }
+    return prev[lb];
+}
+
+const char *
+cli_escape(const char *text, char *buf, size_t n)
+{
+    return dk_text_escape(text, buf, n);
 }

@@ -1,6 +1,7 @@
 /*
  * main.c - the deltak program: find the subcommand in the table and run it.
  */
+#include <errno.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -58,6 +59,33 @@ print_help(FILE *f)
             "1064nm, 1.064um, 9398cm-1, 281.8THz");
 }
 
+/* Whatever went to standard output must have arrived: a full disk or a
+ * closed pipe is a failure, not a success with nothing written. */
+static int
+finish(int rc)
+{
+    if (fflush(stdout) != 0 || ferror(stdout)) {
+        fprintf(stderr, "error: cannot write the output: %s\n",
+                strerror(errno ? errno : EIO));
+        return rc ? rc : CLI_FAIL;
+    }
+    return rc;
+}
+
+/* The closest command name to @name, or NULL (edit distance ≤ 2). */
+static const char *
+closest(const char *name)
+{
+    const char *best = NULL;
+    int bestd = 3;
+    for (size_t i = 0; i < NCOMMANDS; i++) {
+        int d = cli_edit_distance(name, commands[i].name);
+        if (d < bestd)
+            bestd = d, best = commands[i].name;
+    }
+    return best;
+}
+
 int
 main(int argc, char **argv)
 {
@@ -68,20 +96,24 @@ main(int argc, char **argv)
     const char *name = argv[1];
     if (strcmp(name, "--version") == 0 || strcmp(name, "version") == 0) {
         printf("deltak %s\n", DK_VERSION);
-        return 0;
+        return finish(0);
     }
     if (strcmp(name, "--help") == 0 || strcmp(name, "-h") == 0 ||
         strcmp(name, "help") == 0) {
         print_help(stdout);
-        return 0;
+        return finish(0);
     }
     for (size_t i = 0; i < NCOMMANDS; i++)
         if (strcmp(commands[i].name, name) == 0) {
             int rc = commands[i].fn(argc - 1, argv + 1);
             cli_warnings_flush();
-            return rc;
+            return finish(rc);
         }
-    fprintf(stderr, "error: unknown command '%s'\n\n", name);
+    char esc[128];
+    const char *near = closest(name);
+    fprintf(stderr, "error: unknown command '%s'%s%s%s\n\n",
+            cli_escape(name, esc, sizeof esc), near ? "; did you mean '" : "",
+            near ? near : "", near ? "'?" : "");
     print_help(stderr);
     return CLI_USAGE;
 }
