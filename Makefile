@@ -22,8 +22,10 @@ ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) -Iinclude -Isrc \
              -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
 LDLIBS_ALL = $(PKG_LIBS) -lm
 
-LIB_SRC := $(filter-out src/cli/%,$(wildcard src/*/*.c))
-CLI_SRC := $(wildcard src/cli/*.c)
+# The commands are part of the library too (deltak/command.h); only
+# main.c is the program's own.
+LIB_SRC := $(filter-out src/cli/main.c,$(wildcard src/*/*.c))
+CLI_SRC := src/cli/main.c
 LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c)

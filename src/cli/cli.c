@@ -19,17 +19,41 @@
 /* Everything the answer rests on: design notes and the command's own
  * warnings, shown by cli_warnings_flush(), cli_print_assumed() and
  * cli_notes_to_json(). */
-static dk_notes notes;
-static int out_mode;   /* CLI_TEXT, CLI_JSON or CLI_CSV */
+static _Thread_local dk_notes notes;
+static _Thread_local int out_mode;   /* CLI_TEXT, CLI_JSON or CLI_CSV */
+/* Where this thread's command writes: the process's streams, or buffers
+ * when a command is called in-process (deltak/command.h). */
+static _Thread_local FILE *out_stream, *err_stream;
+
+FILE *
+cli_stdout(void)
+{
+    return out_stream ? out_stream : stdout;
+}
+
+FILE *
+cli_stderr(void)
+{
+    return err_stream ? err_stream : stderr;
+}
+
+void
+cli_set_streams(FILE *out, FILE *err)
+{
+    out_stream = out;
+    err_stream = err;
+    dk_notes_clear(&notes);
+    out_mode = CLI_TEXT;
+}
 
 int
 cli_error(const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", stderr);
-    vfprintf(stderr, fmt, ap);
-    fputc('\n', stderr);
+    fputs("error: ", cli_stderr());
+    vfprintf(cli_stderr(), fmt, ap);
+    fputc('\n', cli_stderr());
     va_end(ap);
     return CLI_FAIL;
 }
@@ -46,11 +70,11 @@ cli_usage_error(const char *const usage[], const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", stderr);
-    vfprintf(stderr, fmt, ap);
-    fputc('\n', stderr);
+    fputs("error: ", cli_stderr());
+    vfprintf(cli_stderr(), fmt, ap);
+    fputc('\n', cli_stderr());
     va_end(ap);
-    cli_print_usage(stderr, usage);
+    cli_print_usage(cli_stderr(), usage);
     return CLI_USAGE;
 }
 
@@ -83,7 +107,9 @@ cli_warn_index(const dk_dispersion_set *set, unsigned flags, double lambda_um,
                      set->name);
     if (!dk_warning_text(set, flags, lambda_um, temp_c, buf, sizeof buf))
         return;
-    for (char *line = strtok(buf, "\n"); line; line = strtok(NULL, "\n"))
+    char *sv = NULL;
+    for (char *line = strtok_r(buf, "\n", &sv); line;
+         line = strtok_r(NULL, "\n", &sv))
         dk_notes_add(&notes, DK_NOTE_RANGE,
                      strstr(line, " C ") ? "range:temperature"
                                          : "range:wavelength",
@@ -160,14 +186,14 @@ cli_warnings_flush(void)
         const dk_note *nt = &notes.item[i];
         if (nt->kind == DK_NOTE_DEFAULT && out_mode != CLI_CSV)
             continue;
-        fprintf(stderr, "%s: %s\n",
+        fprintf(cli_stderr(), "%s: %s\n",
                 nt->kind == DK_NOTE_DEFAULT   ? "note"
                 : nt->kind == DK_NOTE_CAUTION ? "caution"
                                               : "warning",
                 nt->text);
     }
     if (notes.dropped)
-        fprintf(stderr, "warning: %d more notes not shown\n", notes.dropped);
+        fprintf(cli_stderr(), "warning: %d more notes not shown\n", notes.dropped);
     dk_notes_clear(&notes);
 }
 
@@ -196,10 +222,10 @@ cli_find_crystal(const dk_db *db, const char *name)
     const dk_crystal *c = dk_db_find(db, name);
     if (c)
         return c;
-    fprintf(stderr, "error: unknown crystal '%s'; known crystals:", name);
+    fprintf(cli_stderr(), "error: unknown crystal '%s'; known crystals:", name);
     for (int i = 0; i < db->ncrystals; i++)
-        fprintf(stderr, "%s %s", i ? "," : "", db->crystals[i]->id);
-    fprintf(stderr, "\n(aliases such as BBO or PPLN work too; see 'deltak "
+        fprintf(cli_stderr(), "%s %s", i ? "," : "", db->crystals[i]->id);
+    fprintf(cli_stderr(), "\n(aliases such as BBO or PPLN work too; see 'deltak "
                     "crystals')\n");
     return NULL;
 }
@@ -212,11 +238,11 @@ cli_find_set(const dk_crystal *c, const char *name)
         cli_warn_index(s, 0, 0, 0);
         return s;
     }
-    fprintf(stderr, "error: %s has no data set '%s'; its sets are:", c->id,
+    fprintf(cli_stderr(), "error: %s has no data set '%s'; its sets are:", c->id,
             name);
     for (int i = 0; i < c->nsets; i++)
-        fprintf(stderr, "%s %s", i ? "," : "", c->sets[i].name);
-    fputc('\n', stderr);
+        fprintf(cli_stderr(), "%s %s", i ? "," : "", c->sets[i].name);
+    fputc('\n', cli_stderr());
     return NULL;
 }
 
@@ -239,9 +265,9 @@ cli_out_commit(cli_out *o)
         free(o->buf);
         return cli_error("out of memory");
     }
-    size_t w = fwrite(o->buf, 1, o->len, stdout);
+    size_t w = fwrite(o->buf, 1, o->len, cli_stdout());
     free(o->buf);
-    if (w != o->len || fflush(stdout) != 0)
+    if (w != o->len || fflush(cli_stdout()) != 0)
         return cli_error("cannot write the output");
     return 0;
 }
@@ -456,7 +482,8 @@ cli_flags_json(json_object *obj, unsigned range, int shg)
         return;
     json_object *arr = json_object_new_array();
     dk_range_codes(range, shg, buf, sizeof buf);
-    for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
+    for (char *sv = NULL, *t = strtok_r(buf, ";", &sv); t;
+         t = strtok_r(NULL, ";", &sv))
         json_object_array_add(arr, json_object_new_string(t));
     json_object_object_add(obj, "flags", arr);
 }

@@ -32,6 +32,16 @@ int cli_edit_distance(const char *a, const char *b);
  * shown as \xNN). Returns @buf. */
 const char *cli_escape(const char *text, char *buf, size_t n);
 
+/* This thread's standard output and error: the process's, or the
+ * buffers of an in-process call (deltak/command.h). Commands never write
+ * to stdout or stderr directly. */
+FILE *cli_stdout(void);
+FILE *cli_stderr(void);
+
+/* Make @out and @err this thread's streams (NULL: the process's) and
+ * start with no notes, in text mode. */
+void cli_set_streams(FILE *out, FILE *err);
+
 /* Print "error: ..." on stderr; returns CLI_FAIL. */
 int cli_error(const char *fmt, ...)
 #if defined(__GNUC__)

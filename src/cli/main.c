@@ -6,39 +6,10 @@
 #include <string.h>
 
 #include "cli.h"
-#include "commands.h"
+#include "command_table.h"
 
-struct cli_cmd {
-    const char *name;
-    int (*fn)(int argc, char **argv);
-    const char *summary;
-};
-
-/* Sorted by name. */
-static const struct cli_cmd commands[] = {
-    {"angle", cmd_angle,
-     "birefringent phase-matching directions, walk-off and d_eff"},
-    {"chip", cmd_chip,
-     "multi-grating and fan-out poling layouts covering a target range"},
-    {"crystals", cmd_crystals,
-     "list the crystal database, or show one crystal's data and sources"},
-    {"gain", cmd_gain,
-     "conversion efficiency, parametric gain and bandwidth, focusing"},
-    {"index", cmd_index,
-     "refractive index, group index, GVD and TOD of each axis"},
-    {"period", cmd_period,
-     "QPM poling period; or, for a period, temperature or wavelengths"},
-    {"pulse", cmd_pulse,
-     "group velocities, GVM, GVD, pulse-splitting and walk-off lengths"},
-    {"run", cmd_run,
-     "carry out a design file: every step, figures and a report"},
-    {"sweep", cmd_sweep,
-     "tuning curves (1-D) and phase-matching maps (2-D), with --plot"},
-    {"tolerance", cmd_tolerance,
-     "spectral, thermal and angular acceptance (FWHM) and sinc^2 curves"},
-};
-
-#define NCOMMANDS (sizeof commands / sizeof commands[0])
+#define NCOMMANDS cli_ncommands
+#define commands cli_commands
 
 static void
 print_help(FILE *f)

@@ -70,7 +70,7 @@ cli_parse_options(int argc, char **argv, const struct option *opts,
             continue;
         }
         if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
-            cli_print_usage(stdout, usage);
+            cli_print_usage(cli_stdout(), usage);
             return CLI_HELP;
         }
         if (a[1] != '-')

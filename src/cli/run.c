@@ -696,7 +696,7 @@ cmd_run(int argc, char **argv)
                       &st->nerr, &st->status))
             rc = cli_error("cannot run step %d of '%s'", i + 1, path);
         else if (st->status != 0) {
-            fprintf(stderr, "%s", st->err ? st->err : "");
+            fprintf(cli_stderr(), "%s", st->err ? st->err : "");
             rc = cli_error("'%s', line %d failed (exit %d): deltak %s; no "
                            "report written",
                            path, st->line, st->status, st->text);
@@ -709,7 +709,7 @@ cmd_run(int argc, char **argv)
     nc = crystal_sources(self, &df, crys, RUN_MAX_STEPS);
     const char *dest = report ? report : df.report[0] ? df.report : NULL;
     if (!dest) {
-        write_markdown(stdout, path, NULL, &df, crys, nc);
+        write_markdown(cli_stdout(), path, NULL, &df, crys, nc);
         goto done;
     }
     if (!report)
@@ -732,7 +732,7 @@ cmd_run(int argc, char **argv)
     if ((rc = write_file(dest, path, &df, crys, nc, 0)) ||
         (rc = write_file(jpath, path, &df, crys, nc, 1)))
         goto done;
-    printf("ran %d steps of '%s'; report in %s and %s\n", df.nsteps, path,
+    fprintf(cli_stdout(), "ran %d steps of '%s'; report in %s and %s\n", df.nsteps, path,
            dest, jpath);
 done:
     for (int i = 0; i < df.nsteps; i++) {
