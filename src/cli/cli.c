@@ -46,14 +46,23 @@ cli_set_streams(FILE *out, FILE *err)
     out_mode = CLI_TEXT;
 }
 
+/* "error: MESSAGE" with every control character of the message shown
+ * as \xNN: messages quote what the user typed, and a terminal must not
+ * obey it. */
+static void
+print_error(const char *fmt, va_list ap)
+{
+    char msg[1024], esc[3072];
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    fprintf(cli_stderr(), "error: %s\n", dk_text_escape(msg, esc, sizeof esc));
+}
+
 int
 cli_error(const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", cli_stderr());
-    vfprintf(cli_stderr(), fmt, ap);
-    fputc('\n', cli_stderr());
+    print_error(fmt, ap);
     va_end(ap);
     return CLI_FAIL;
 }
@@ -70,9 +79,7 @@ cli_usage_error(const char *const usage[], const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", cli_stderr());
-    vfprintf(cli_stderr(), fmt, ap);
-    fputc('\n', cli_stderr());
+    print_error(fmt, ap);
     va_end(ap);
     cli_print_usage(cli_stderr(), usage);
     return CLI_USAGE;
@@ -222,7 +229,9 @@ cli_find_crystal(const dk_db *db, const char *name)
     const dk_crystal *c = dk_db_find(db, name);
     if (c)
         return c;
-    fprintf(cli_stderr(), "error: unknown crystal '%s'; known crystals:", name);
+    char esc[160];
+    fprintf(cli_stderr(), "error: unknown crystal '%s'; known crystals:",
+            cli_escape(name, esc, sizeof esc));
     for (int i = 0; i < db->ncrystals; i++)
         fprintf(cli_stderr(), "%s %s", i ? "," : "", db->crystals[i]->id);
     fprintf(cli_stderr(), "\n(aliases such as BBO or PPLN work too; see 'deltak "
@@ -238,8 +247,9 @@ cli_find_set(const dk_crystal *c, const char *name)
         cli_warn_index(s, 0, 0, 0);
         return s;
     }
-    fprintf(cli_stderr(), "error: %s has no data set '%s'; its sets are:", c->id,
-            name);
+    char esc[160];
+    fprintf(cli_stderr(), "error: %s has no data set '%s'; its sets are:",
+            c->id, cli_escape(name, esc, sizeof esc));
     for (int i = 0; i < c->nsets; i++)
         fprintf(cli_stderr(), "%s %s", i ? "," : "", c->sets[i].name);
     fputc('\n', cli_stderr());
@@ -523,4 +533,28 @@ const char *
 cli_escape(const char *text, char *buf, size_t n)
 {
     return dk_text_escape(text, buf, n);
+}
+
+const char *
+cli_csv(const char *text, char *buf, size_t n)
+{
+    if (!strpbrk(text, ",\"\r\n")) {
+        snprintf(buf, n, "%s", text);
+        return buf;
+    }
+    /* RFC 4180: quote the field, double the quotes inside. */
+    size_t k = 0;
+    if (n < 3) {
+        buf[0] = '\0';
+        return buf;
+    }
+    buf[k++] = '"';
+    for (; *text && k + 3 < n; text++) {
+        if (*text == '"')
+            buf[k++] = '"';
+        buf[k++] = *text;
+    }
+    buf[k++] = '"';
+    buf[k] = '\0';
+    return buf;
 }
