@@ -263,6 +263,19 @@ printf 'report: out/p.md\nsweep --crystal MgO:LN --pump 1064nm --vary period=28u
 expect run-figure 0 'ran 1 steps' -- run "$tmp/proj/p.dk"
 if [ -s "$tmp/proj/out/t.svg" ] && grep -q '(t.svg)' "$tmp/proj/out/p.md"; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-figure-beside-report"; fi
+# A killed run leaves no step running and no temporary file behind.
+mkdir -p "$tmp/slow"
+printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --plot slow.svg\n' > "$tmp/slow/s.dk"
+"$DK" run "$tmp/slow/s.dk" >/dev/null 2>&1 &
+runpid=$!
+sleep 1
+kill -TERM $runpid 2>/dev/null
+wait $runpid 2>/dev/null
+sleep 0.5
+if ! pgrep -f "$tmp/slow/slow.svg" >/dev/null && [ -z "$(ls -A "$tmp/slow" | grep -v '^s.dk$')" ]; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-killed-cleanly"; ls -A "$tmp/slow"; pkill -f "$tmp/slow/slow.svg"; fi
+expect run-check 0 '2 steps, checked; nothing run' -- run "$tmp/ok.dk" --check
+
 # Write errors on standard output are failures, not silent successes.
 if [ -w /dev/full ]; then
     for c in --version --help "run $tmp/ok.dk" "crystals"; do
