@@ -128,7 +128,7 @@ FUZZ_CFLAGS   = -std=c17 -D_DEFAULT_SOURCE -g -O1 -Wall -Wextra \
                 -fsanitize=address,undefined -fno-sanitize-recover=all \
                 -fno-omit-frame-pointer -Iinclude -Isrc $(PKG_CFLAGS) \
                 -DDK_VERSION='"$(VERSION)"' \
-                -DDK_CRYSTAL_DIR='"$(abspath crystals)"'
+                -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
 FUZZ_OBJ     := $(LIB_SRC:%.c=$(BUILD)/fuzz/obj/%.o)
 
 $(BUILD)/fuzz/obj/%.o: %.c | $(DEPCHECK)
@@ -149,4 +149,4 @@ fuzz: $(FUZZ_TARGETS:%=$(BUILD)/fuzz/fuzz_%)
 clean:
 	rm -rf $(BUILD)
 
--include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d)
+-include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d) $(FUZZ_OBJ:.o=.d)
