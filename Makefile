@@ -119,7 +119,7 @@ plots: $(BUILD)/deltak
 # loader's 256 kB limit, so slow large inputs are found), 10 s per input
 # at most. Corpus in build/fuzz/corpus-NAME/, findings in
 # build/fuzz/findings-NAME/. `make fuzz FUZZ_TARGETS=units` runs one.
-FUZZ_TARGETS ?= units crystal index folder
+FUZZ_TARGETS ?= units crystal index folder design command
 FUZZ_RUNS    ?= 1000000
 FUZZ_SECONDS ?= 3600
 FUZZ_MAX_LEN ?= 1048576
