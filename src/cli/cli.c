@@ -48,14 +48,23 @@ cli_set_streams(FILE *out, FILE *err)
     out_mode = CLI_TEXT;
 }
 
+/* "error: MESSAGE" with every control character of the message shown
+ * as \xNN: messages quote what the user typed, and a terminal must not
+ * obey it. */
+static void
+print_error(const char *fmt, va_list ap)
+{
+    char msg[1024], esc[3072];
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    fprintf(cli_stderr(), "error: %s\n", dk_text_escape(msg, esc, sizeof esc));
+}
+
 int
 cli_error(const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", cli_stderr());
-    vfprintf(cli_stderr(), fmt, ap);
-    fputc('\n', cli_stderr());
+    print_error(fmt, ap);
     va_end(ap);
     return CLI_FAIL;
 }
@@ -72,9 +81,7 @@ cli_usage_error(const char *const usage[], const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", cli_stderr());
-    vfprintf(cli_stderr(), fmt, ap);
-    fputc('\n', cli_stderr());
+    print_error(fmt, ap);
     va_end(ap);
     cli_print_usage(cli_stderr(), usage);
     return CLI_USAGE;
@@ -721,4 +728,28 @@ const char *
 cli_escape(const char *text, char *buf, size_t n)
 {
     return dk_text_escape(text, buf, n);
+}
+
+const char *
+cli_csv(const char *text, char *buf, size_t n)
+{
+    if (!strpbrk(text, ",\"\r\n")) {
+        snprintf(buf, n, "%s", text);
+        return buf;
+    }
+    /* RFC 4180: quote the field, double the quotes inside. */
+    size_t k = 0;
+    if (n < 3) {
+        buf[0] = '\0';
+        return buf;
+    }
+    buf[k++] = '"';
+    for (; *text && k + 3 < n; text++) {
+        if (*text == '"')
+            buf[k++] = '"';
+        buf[k++] = *text;
+    }
+    buf[k++] = '"';
+    buf[k] = '\0';
+    return buf;
 }

@@ -42,6 +42,10 @@ FILE *cli_stderr(void);
  * start with no notes, in text mode. */
 void cli_set_streams(FILE *out, FILE *err);
 
+/* A text field for CSV: as it is, or quoted (RFC 4180) when it holds a
+ * comma, quote or line break. Returns @buf. */
+const char *cli_csv(const char *text, char *buf, size_t n);
+
 /* Print "error: ..." on stderr; returns CLI_FAIL. */
 int cli_error(const char *fmt, ...)
 #if defined(__GNUC__)
