@@ -276,10 +276,14 @@ $(INST)/deltak.pc: deltak.pc.in $(INST)/dirs.stamp
 	    -e 's|@INCLUDEDIR@|$(INCLUDEDIR)|' -e 's|@CRYSTALDIR@|$(CRYSTALDIR)|' \
 	    -e 's|@VERSION@|$(VERSION)|' -e 's|@REQUIRES_PRIVATE@|$(PKGS)|' $< > $@
 
+$(INST)/deltak.1: man/deltak.1 $(INST)/dirs.stamp
+	@sed -e 's|@CRYSTALDIR@|$(CRYSTALDIR)|g' $< > $@
+
 PY_FILES := $(wildcard python/deltak/*.py)
 CRYSTAL_FILES := $(wildcard crystals/*.yaml) crystals/README.md
 
-install: $(INST)/deltak $(INST)/libdeltak.a $(INST)/$(SOFILE) $(INST)/deltak.pc
+install: $(INST)/deltak $(INST)/libdeltak.a $(INST)/$(SOFILE) $(INST)/deltak.pc \
+         $(INST)/deltak.1
 	@echo "  INSTALL $(DESTDIR)$(PREFIX)"
 	$(Q)install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(LIBDIR)/pkgconfig \
 	    $(DESTDIR)$(INCLUDEDIR)/deltak $(DESTDIR)$(CRYSTALDIR) \
@@ -287,7 +291,7 @@ install: $(INST)/deltak $(INST)/libdeltak.a $(INST)/$(SOFILE) $(INST)/deltak.pc
 	    $(DESTDIR)$(PYTHONDIR)/deltak
 	$(Q)install -m 755 $(INST)/deltak $(DESTDIR)$(BINDIR)/deltak
 	$(Q)install -m 644 $(CRYSTAL_FILES) $(DESTDIR)$(CRYSTALDIR)/
-	$(Q)install -m 644 man/deltak.1 $(DESTDIR)$(MANDIR)/man1/deltak.1
+	$(Q)install -m 644 $(INST)/deltak.1 $(DESTDIR)$(MANDIR)/man1/deltak.1
 	$(Q)install -m 644 completion/deltak.bash $(DESTDIR)$(COMPLETIONDIR)/deltak
 	$(Q)install -m 644 $(HEADERS) $(DESTDIR)$(INCLUDEDIR)/deltak/
 	$(Q)install -m 644 $(INST)/libdeltak.a $(DESTDIR)$(LIBDIR)/libdeltak.a
