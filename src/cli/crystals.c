@@ -277,6 +277,8 @@ crystal_json(const dk_crystal *c, int full)
     json_object *o = json_object_new_object();
     json_object_object_add(o, "crystal", json_object_new_string(c->id));
     json_object_object_add(o, "name", json_object_new_string(c->name));
+    json_object_object_add(o, "file", json_object_new_string(c->path));
+    json_object_object_add(o, "shipped", json_object_new_boolean(is_shipped(c)));
     json_object *al = json_object_new_array();
     for (int i = 0; i < c->naliases; i++)
         json_object_array_add(al, json_object_new_string(c->aliases[i]));

@@ -66,6 +66,11 @@ DELTAK_CRYSTALS="$tmp/own" "$DK" crystals >"$tmp/out" 2>"$tmp/err"
 if grep -q '^Testium\*' "$tmp/out" && grep -q '^MgO:LiNbO3 ' "$tmp/out" &&
    grep -q "^$((n + 1)) crystals" "$tmp/out" && grep -q 'from your own files' "$tmp/out" &&
    [ ! -s "$tmp/err" ]; then ok; else no "search-path-adds"; fi
+DELTAK_CRYSTALS="$tmp/own" "$DK" crystals --json | "$PY" -c "
+import json, sys
+c = {k['crystal']: k for k in json.load(sys.stdin)['crystals']}
+assert c['Testium']['shipped'] is False and c['Testium']['file'].endswith('/own/minimal.yaml')
+assert c['GaAs']['shipped'] is True" 2>"$tmp/err" && ok || no "search-path-json"
 # A file of the user's with a shipped name wins, with a warning naming both.
 sed 's/^name: .*/name: a lab copy with other numbers/' crystals/bbo.yaml >"$tmp/own/my-bbo.yaml"
 DELTAK_CRYSTALS="$tmp/own" "$DK" crystals BBO >"$tmp/out" 2>"$tmp/err"
