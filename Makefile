@@ -145,7 +145,7 @@ FUZZ_CFLAGS   = -std=c17 -D_DEFAULT_SOURCE -g -O1 -Wall -Wextra \
                 -fsanitize=address,undefined -fno-sanitize-recover=all \
                 -fno-omit-frame-pointer -Iinclude -Isrc $(PKG_CFLAGS) \
                 -DDK_VERSION='"$(VERSION)"' \
-                -DDK_CRYSTAL_DIR='"$(abspath crystals)"'
+                -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
 FUZZ_OBJ     := $(LIB_SRC:%.c=$(BUILD)/fuzz/obj/%.o)
 
 $(BUILD)/fuzz/obj/%.o: %.c | $(DEPCHECK)
@@ -334,4 +334,4 @@ package-tests: $(BUILD)/deltak $(BUILD)/$(SOFILE)
 clean:
 	rm -rf $(BUILD)
 
--include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d)
+-include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d) $(FUZZ_OBJ:.o=.d)
