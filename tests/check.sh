@@ -1,6 +1,7 @@
 #!/bin/sh
 # make check: unit tests, command-line tests, then both again under
-# AddressSanitizer + UndefinedBehaviorSanitizer. Prints one closing line
+# AddressSanitizer + UndefinedBehaviorSanitizer, then what a user
+# installs (tests/package/run.sh). Prints one closing line
 # "checks: N passed, M failed".
 MAKE_CMD=$1; BUILD=$2
 log=$BUILD/check.log
@@ -10,7 +11,8 @@ $MAKE_CMD --no-print-directory unit >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory cli-tests >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory asan >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory asan-cli >>"$log" 2>&1 || status=1
-grep -E '^(unit|cli|cli-asan): [0-9]+ passed' "$log" > "$BUILD/check.sum"
+$MAKE_CMD --no-print-directory package-tests >>"$log" 2>&1 || status=1
+grep -E '^(unit|cli|cli-asan|package|package-asan|python|python-installed|install): [0-9]+ passed' "$log" > "$BUILD/check.sum"
 grep -E 'FAILED|^not ok|error:|Error|runtime error|AddressSanitizer' "$log" | head -40
 pass=$(awk '{s+=$2} END{print s+0}' "$BUILD/check.sum")
 fail=$(awk '{s+=$4} END{print s+0}' "$BUILD/check.sum")
