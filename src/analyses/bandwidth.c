@@ -107,7 +107,8 @@ dk_design_pair_delta_k(dk_design *d, dk_pair p, double delta_thz)
         if (!(nu[j] > 0))
             return NAN;
     }
-    dk_waves w = {C_UM_THZ / nu[0], C_UM_THZ / nu[1], C_UM_THZ / nu[2]};
+    dk_waves w = {.signal_um = C_UM_THZ / nu[0], .idler_um = C_UM_THZ / nu[1],
+                  .pump_um = C_UM_THZ / nu[2]};
     return dk_at_waves(d, &w);
 }
 
@@ -224,7 +225,7 @@ done:
 }
 
 /* Spectral field amplitude of a transform-limited pulse (intensity FWHM
- * τ) at detuning Ω (rad/fs): Gaussian exp(−Ω²τ²/(16 ln2)); sech²: the
+ * τ) at detuning Ω (rad/fs): Gaussian exp(−Ω²τ²/(8 ln2)); sech²: the
  * field sech(t/T), T = τ/(2 acosh √2), has the spectrum sech(πΩT/2). */
 static double
 amplitude(double om, double tau, dk_pulse_shape s)
@@ -233,7 +234,7 @@ amplitude(double om, double tau, dk_pulse_shape s)
         double t = tau / (2 * acosh(M_SQRT2));
         return 1 / cosh(M_PI * om * t / 2);
     }
-    return exp(-om * om * tau * tau / (16 * M_LN2));
+    return exp(-om * om * tau * tau / (8 * M_LN2));
 }
 
 /* Half-width (rad/fs) beyond which the amplitude is below 1e-8. */
@@ -244,7 +245,7 @@ half_band(double tau, dk_pulse_shape s)
         double t = tau / (2 * acosh(M_SQRT2));
         return 2 * acosh(1e8) / (M_PI * t);
     }
-    return sqrt(16 * M_LN2 * log(1e8)) / tau;
+    return sqrt(8 * M_LN2 * log(1e8)) / tau;
 }
 
 /* FWHM of samples @y at spacing @dt between the outermost points at half
