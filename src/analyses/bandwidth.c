@@ -237,15 +237,16 @@ amplitude(double om, double tau, dk_pulse_shape s)
     return exp(-om * om * tau * tau / (8 * M_LN2));
 }
 
-/* Half-width (rad/fs) beyond which the amplitude is below 1e-8. */
+/* Half-width (rad/fs) beyond which the amplitude is below 1e-6 (the
+ * intensity below 1e-12 of its peak). */
 static double
 half_band(double tau, dk_pulse_shape s)
 {
     if (s == DK_SHAPE_SECH2) {
         double t = tau / (2 * acosh(M_SQRT2));
-        return 2 * acosh(1e8) / (M_PI * t);
+        return 2 * acosh(1e6) / (M_PI * t);
     }
-    return sqrt(8 * M_LN2 * log(1e8)) / tau;
+    return sqrt(8 * M_LN2 * log(1e6)) / tau;
 }
 
 /* FWHM of samples @y at spacing @dt between the outermost points at half
