@@ -10,6 +10,7 @@
 #include "testutil.h"
 
 #include "deltak/bandwidth.h"
+#include "deltak/broadband.h"
 #include "deltak/design_sim.h"
 #include "deltak/gain_spectrum.h"
 #include "deltak/pulse.h"
@@ -405,6 +406,132 @@ gain_regime(void **state)
                   DK_SINC2_HALF_U * DK_SINC2_HALF_U / M_LN2, 1e-4, 0);
 }
 
+/* The low-conversion output spectrum (deltak/broadband.h: the closed
+ * form of the undepleted coupled-wave equations, summed over input
+ * pairs) against the full simulation of the same weak inputs (split-step
+ * propagation): DFG to the mid-infrared in GaSe (collinear) and in a
+ * noncollinear BBO design, and SHG of a short pulse in BBO. Fluence to
+ * 1 %, spectrum shape to 1 % of its peak. */
+static void
+low_conversion_vs_simulation(void **state)
+{
+    (void)state;
+    const struct {
+        const char *crystal, *pol;
+        dk_waves w;
+        int shg;
+        double len_mm, alpha_deg;
+        double fwhm[3];   /* signal, idler, pump inputs; 0 dark */
+    } cases[] = {
+        {"GaSe", "ooe", {.pump_um = 1.65, .signal_um = 2.74}, 0, 0.5, 0,
+         {70, 0, 60}},
+        {"BBO", "ooe", {.pump_um = 0.8, .signal_um = 1.3}, 0, 1, 2.5,
+         {0, 80, 60}},
+        {"BBO", "ooe", {.signal_um = 1.03}, 1, 1, 0, {25, 0, 0}},
+    };
+    for (size_t c = 0; c < sizeof cases / sizeof cases[0]; c++) {
+        dk_design_request rq;
+        dk_design_request_init(&rq);
+        rq.crystal = dk_db_find(db, cases[c].crystal);
+        dk_waves w = cases[c].w;
+        if (cases[c].shg)
+            w = dk_waves_shg(w.signal_um);
+        else
+            w.idler_um = 1 / (1 / w.pump_um - 1 / w.signal_um);
+        rq.waves = w;
+        rq.shg = cases[c].shg;
+        rq.pol = cases[c].pol;
+        rq.scheme = DK_SCHEME_ANGLE;
+        rq.length_mm = cases[c].len_mm;
+        rq.alpha_rad = cases[c].alpha_deg * M_PI / 180;
+        dk_design d;
+        assert_int_equal(dk_design_resolve(&rq, &d, NULL), DK_OK);
+        dk_design_wave_k wk[3];
+        dk_sim_problem p;
+        assert_int_equal(dk_design_sim_problem(&d, wk, &p, NULL, NULL),
+                         DK_OK);
+        for (int j = 0; j < 3; j++)
+            if (cases[c].fwhm[j] > 0)
+                p.wave[j].input = (dk_sim_pulse){.shape = DK_SIM_GAUSSIAN,
+                                                 .fwhm_fs = cases[c].fwhm[j],
+                                                 .peak_gw_per_cm2 = 1e-3};
+        dk_sim_options so = {.samples = 1024};
+        dk_mix_result *m = NULL;
+        assert_int_equal(dk_mix_spectrum(&p, &so, DK_MIX_AUTO, &m, NULL),
+                         DK_OK);
+        dk_sim_result *r = NULL;
+        assert_int_equal(dk_sim_run(&p, &so, &r, NULL), DK_OK);
+        int g = m->generated;
+        assert_true(m->photon_fraction < 1e-3);
+        assert_within(m->fluence_j_per_cm2[g],
+                      r->wave[g].fluence_out_j_per_cm2, 0.01, 0);
+        double pk = 0;
+        for (size_t k = 0; k < m->n; k++)
+            pk = fmax(pk, m->spectrum_out[g][k]);
+        /* the simulation's bins ascend in frequency too */
+        for (size_t k = 0; k < m->n; k++) {
+            assert_within(m->frequency_thz[g][k], r->wave[g].frequency_thz[k],
+                          1e-9, 0);
+            assert_within(m->spectrum_out[g][k] / pk,
+                          r->wave[g].spectrum_out_j_per_cm2_thz[k] / pk, 0,
+                          1e-2);
+        }
+        /* the transform limit of the same spectrum */
+        assert_within(m->transform_limit_fs, r->wave[g].transform_limit_out_fs,
+                      0.03, 0);
+        dk_mix_result_free(m);
+        dk_sim_result_free(r);
+    }
+    /* Inputs that do not fit the process. */
+    dk_design d;
+    test_design(&d, "BBO", NULL, opa(0.8, 1.3), 0, NAN, "ooe",
+                DK_SCHEME_ANGLE, 1);
+    dk_design_wave_k wk[3];
+    dk_sim_problem p;
+    assert_int_equal(dk_design_sim_problem(&d, wk, &p, NULL, NULL), DK_OK);
+    p.wave[2].input = (dk_sim_pulse){.shape = DK_SIM_GAUSSIAN, .fwhm_fs = 50,
+                                     .peak_gw_per_cm2 = 1};
+    dk_mix_result *m = NULL;
+    assert_int_equal(dk_mix_spectrum(&p, NULL, DK_MIX_DFG, &m, NULL),
+                     DK_EINVAL);
+    assert_int_equal(dk_mix_spectrum(&p, NULL, DK_MIX_SFG, &m, NULL),
+                     DK_EINVAL);
+}
+
+/* OPA with a narrowband pump: the largest gain over the seed's band is
+ * the plane-wave gain of deltak/gain_spectrum.h at phase matching, and
+ * the idler carries (G − 1) times the seed's photons (Manley–Rowe). */
+static void
+opa_gain_spectrum(void **state)
+{
+    (void)state;
+    dk_design d;
+    test_design(&d, "BBO", NULL, opa(0.8, 1.3), 0, NAN, "ooe",
+                DK_SCHEME_ANGLE, 2);
+    dk_design_wave_k wk[3];
+    dk_sim_problem p;
+    assert_int_equal(dk_design_sim_problem(&d, wk, &p, NULL, NULL), DK_OK);
+    const double ip = 20;
+    p.wave[2].input = (dk_sim_pulse){.shape = DK_SIM_CW,
+                                     .peak_gw_per_cm2 = ip};
+    p.wave[0].input = (dk_sim_pulse){.shape = DK_SIM_GAUSSIAN, .fwhm_fs = 100,
+                                     .peak_gw_per_cm2 = 1e-6};
+    dk_mix_result *m = NULL;
+    dk_sim_options so = {.samples = 1024};
+    assert_int_equal(dk_mix_spectrum(&p, &so, DK_MIX_OPA, &m, NULL), DK_OK);
+    dk_opa_result o;
+    assert_int_equal(dk_design_opa(&d, ip, &o, NULL), DK_OK);
+    assert_within(m->gain_peak, o.gain, 0.01, 0);
+    double ph_s = 0, ph_i = 0, ph_in = 0;
+    for (size_t k = 0; k < m->n; k++) {
+        ph_s += m->spectrum_out[0][k] / m->frequency_thz[0][k];
+        ph_in += m->spectrum_in[0][k] / m->frequency_thz[0][k];
+        ph_i += m->spectrum_out[1][k] / m->frequency_thz[1][k];
+    }
+    assert_within(ph_s - ph_in, ph_i, 1e-6, 0);
+    dk_mix_result_free(m);
+}
+
 int
 main(void)
 {
@@ -418,6 +545,8 @@ main(void)
         cmocka_unit_test(shg_plane_wave),
         cmocka_unit_test(sfg_spectrum_pair),
         cmocka_unit_test(gain_regime),
+        cmocka_unit_test(low_conversion_vs_simulation),
+        cmocka_unit_test(opa_gain_spectrum),
     };
     return cmocka_run_group_tests(tests, db_setup, db_teardown);
 }

@@ -15,6 +15,7 @@
 #include "design_args.h"
 #include "options.h"
 #include "pulse_spec.h"
+#include "deltak/broadband.h"
 #include "deltak/constants.h"
 #include "deltak/design_sim.h"
 #include "deltak/plot.h"
@@ -33,7 +34,8 @@ static const char *const simulate_usage[] = {
     "[--tolerance <x>] [--no-check]",
     "                [--frame signal|idler|pump] [--json | --csv [--table "
     "energy|spectra|pulses]]",
-    "                [--plot <file> [--figure energy|spectra|pulses]]",
+    "                [--plot <file> [--figure energy|spectra|pulses]] "
+    "[--model full|low-conversion|opa-gain]",
     "",
     "  --pump-in, --signal-in, --idler-in, --fundamental-in <pulse>  an "
     "input pulse, key=value items:",
@@ -54,6 +56,11 @@ static const char *const simulate_usage[] = {
     "  --table <t>       with --csv: energy (along z, default), spectra or "
     "pulses",
     "  --figure <f>      with --plot: spectra (default), pulses or energy",
+    "  --model <m>       full (default): propagate the fields; "
+    "low-conversion: the SFG/DFG output spectrum of",
+    "                    the two inputs with the phase-matching amplitude "
+    "and phase (undepleted); opa-gain: the",
+    "                    seed times the gain of a narrowband pump",
     CLI_PLOT_USAGE,
     "",
     "Plane waves along z (no diffraction or spatial walk-off, reported "
@@ -65,7 +72,8 @@ static const char *const simulate_usage[] = {
 #define ALLOWED CLI_D_ALL
 
 enum { O_SIG_IN = 500, O_IDL_IN, O_PUMP_IN, O_FUND_IN, O_BEAM, O_SAMPLES,
-       O_STEP, O_TOL, O_NOCHECK, O_FRAME, O_TABLE, O_FIGURE, O_END };
+       O_STEP, O_TOL, O_NOCHECK, O_FRAME, O_TABLE, O_FIGURE, O_MODEL,
+       O_END };
 
 /* Photon energies: ħω in J for ω in rad/fs. */
 #define HBAR_J_FS 1.054571817e-19
@@ -583,6 +591,166 @@ draw(const cli_plot_args *pa, const char *path, const char *figure,
     return s;
 }
 
+/* The low-conversion (or narrowband-pump gain) output spectrum. */
+static int
+run_mix(const int *mode, dk_design *d, const dk_sim_problem *p,
+        const dk_sim_options *so, int model, double area,
+        const cli_plot_args *pa, const char *plot, const char *figure,
+        const char *table)
+{
+    (void)figure;
+    (void)table;
+    dk_error err = {0};
+    dk_mix_result *m = NULL;
+    dk_mix_kind kind = model == DK_MIX_OPA ? DK_MIX_OPA : DK_MIX_AUTO;
+    if (dk_mix_spectrum(p, so, kind, &m, &err))
+        return cli_error("%s", err.msg);
+    int g = m->generated, rc = CLI_FAIL;
+    const char *gname = p->wave[g].name;
+    size_t n = m->n;
+    if (m->photon_fraction > 0.05)
+        cli_warn("the %s takes %.2g of the scarcer input's photons: beyond "
+                 "the low-conversion limit; use --model full",
+                 gname, m->photon_fraction);
+    cli_warn("laser safety: these are Class 3B/4 pulses and the infrared "
+             "outputs are invisible; wear eye protection rated for every "
+             "wavelength present, dump the residual pump, keep below the "
+             "crystal's damage threshold; local laser-safety rules and your "
+             "laser safety officer take precedence");
+    cli_out out;
+    if (cli_out_open(&out))
+        goto done;
+    if (plot) {
+        dk_plot *fig = NULL;
+        dk_status s = cli_plot_new(pa, &fig, &err);
+        double *x = malloc(2 * n * sizeof *x), *y = x ? x + n : NULL;
+        if (!x && !s)
+            s = dk_error_set(&err, DK_ENOMEM, "out of memory");
+        if (!s)
+            s = dk_plot_set_xlabel(fig, "Wavelength (µm)", &err);
+        if (!s)
+            s = dk_plot_set_ylabel(fig, "Spectral density, each to its "
+                                        "peak; |h|<sup>2</sup>",
+                                   &err);
+        for (int j = 0; !s && j < 3; j++) {
+            if (!m->frequency_thz[j])
+                continue;
+            double peak = 0;
+            for (size_t k = 0; k < n; k++)
+                peak = fmax(peak, m->spectrum_out[j][k]);
+            if (!(peak > 0))
+                continue;
+            for (size_t k = 0; k < n; k++) {
+                x[k] = 299.792458 / m->frequency_thz[j][k];
+                y[k] = m->spectrum_out[j][k] >= 1e-4 * peak
+                           ? m->spectrum_out[j][k] / peak
+                           : NAN;
+            }
+            char label[96];
+            snprintf(label, sizeof label, "%s%s", p->wave[j].name,
+                     j == g ? " (generated)" : "");
+            s = dk_plot_add_line(fig, x, y, n, label, &err);
+            if (!s && j == g) {
+                double lo = INFINITY, hi = -INFINITY;
+                for (size_t k = 0; k < n; k++)
+                    if (isfinite(y[k]))
+                        lo = fmin(lo, x[k]), hi = fmax(hi, x[k]);
+                for (size_t k = 0; k < n; k++)
+                    y[k] = x[k] >= lo - 0.5 * (hi - lo) &&
+                                   x[k] <= hi + 0.5 * (hi - lo)
+                               ? pow(m->pm_modulus[k], 2)
+                               : NAN;
+                s = dk_plot_add_line(fig, x, y, n,
+                                     "phase matching |h|<sup>2</sup>", &err);
+            }
+        }
+        if (!s)
+            s = dk_plot_set_yrange(fig, 0, 1.08, &err);
+        if (!s)
+            s = dk_plot_write(fig, plot, &err);
+        free(x);
+        dk_plot_free(fig);
+        if (s) {
+            cli_out_discard(&out);
+            cli_error("%s", err.msg);
+            goto done;
+        }
+    }
+    const char *kname = m->kind == DK_MIX_SFG   ? "sum-frequency"
+                        : m->kind == DK_MIX_DFG ? "difference-frequency"
+                                                : "parametric gain";
+    if (*mode == CLI_JSON) {
+        json_object *o = json_object_new_object();
+        json_object_object_add(o, "crystal",
+                               json_object_new_string(d->crystal->id));
+        json_object_object_add(o, "model",
+                               json_object_new_string(
+                                   m->kind == DK_MIX_OPA ? "opa-gain"
+                                                         : "low-conversion"));
+        json_object_object_add(o, "process", json_object_new_string(kname));
+        json_object_object_add(o, "generated", json_object_new_string(gname));
+        json_object_object_add(o, "length_mm", cli_json_num(d->length_mm));
+        json_object_object_add(o, "fluence_J_per_cm2",
+                               cli_json_num(m->fluence_j_per_cm2[g]));
+        if (area > 0)
+            json_object_object_add(o, "energy_J", cli_json_num(m->energy_j[g]));
+        json_object_object_add(o, "centre_THz", cli_json_num(m->centre_thz));
+        json_object_object_add(o, "centre_um",
+                               cli_json_num(299.792458 / m->centre_thz));
+        json_object_object_add(o, "spectral_fwhm_THz",
+                               cli_json_num(m->fwhm_thz));
+        json_object_object_add(o, "transform_limit_fs",
+                               cli_json_num(m->transform_limit_fs));
+        json_object_object_add(o, "photon_fraction",
+                               cli_json_num(m->photon_fraction));
+        if (m->kind == DK_MIX_OPA)
+            json_object_object_add(o, "gain_peak", cli_json_num(m->gain_peak));
+        cli_notes_to_json(o);
+        cli_out_json(&out, o);
+    } else if (*mode == CLI_CSV) {
+        fprintf(out.f, "frequency_THz,wavelength_um,spectrum_J_per_cm2_THz,"
+                       "phase_rad,pm_modulus,pm_phase_rad\n");
+        for (size_t k = 0; k < n; k++)
+            fprintf(out.f, "%.10g,%.10g,%.6g,%.6g,%.6g,%.6g\n",
+                    m->frequency_thz[g][k],
+                    299.792458 / m->frequency_thz[g][k],
+                    m->spectrum_out[g][k], m->phase_out_rad[k],
+                    m->pm_modulus[k], m->pm_phase_rad[k]);
+    } else {
+        fprintf(out.f, "%s (data set %s), %s design, %.4g mm, %.4g C\n",
+                d->crystal->id, d->set->name,
+                d->scheme == DK_SCHEME_QPM ? "QPM" : "birefringent",
+                d->length_mm, d->temp_c);
+        fprintf(out.f, "  %s model: %s of the inputs into the %s\n",
+                m->kind == DK_MIX_OPA ? "narrowband-pump gain"
+                                      : "low-conversion",
+                kname, gname);
+        fprintf(out.f, "  (inputs undepleted; each pair of input "
+                       "frequencies with its own phase mismatch over the "
+                       "crystal, h = e^{-iqL/2} sinc(qL/2))\n\n");
+        fprintf(out.f, "  %s: centre %.5g um (%.5g THz), spectral FWHM %.4g "
+                       "THz, transform limit %.4g fs\n",
+                gname, 299.792458 / m->centre_thz, m->centre_thz, m->fwhm_thz,
+                m->transform_limit_fs);
+        fprintf(out.f, "  fluence %.4g mJ/cm2", m->fluence_j_per_cm2[g] * 1e3);
+        if (area > 0)
+            fprintf(out.f, ", energy %.4g nJ", m->energy_j[g] * 1e9);
+        fprintf(out.f, "; photons made / photons of the scarcer input "
+                       "%.3g\n",
+                m->photon_fraction);
+        if (m->kind == DK_MIX_OPA)
+            fprintf(out.f, "  largest gain over the seed's band %.4g; "
+                           "amplified signal %.4g mJ/cm2\n",
+                    m->gain_peak, m->fluence_j_per_cm2[0] * 1e3);
+        if (plot)
+            fprintf(out.f, "  wrote %s\n", plot);
+    }
+    rc = cli_out_commit(&out);
+done:
+    dk_mix_result_free(m);
+    return rc;
+}
+
 /* Put the parsed pulse on wave @j (half of it on each of waves 0 and 1
  * for a type-II SHG input). */
 static void
@@ -617,6 +785,7 @@ cmd_simulate(int argc, char **argv)
         {"frame", required_argument, NULL, O_FRAME},
         {"table", required_argument, NULL, O_TABLE},
         {"figure", required_argument, NULL, O_FIGURE},
+        {"model", required_argument, NULL, O_MODEL},
         {NULL, 0, NULL, 0}};
     const char *v[O_END - O_SIG_IN] = {0};
     cli_slots sl = {O_SIG_IN, O_END - O_SIG_IN, v, opts, simulate_usage};
@@ -648,6 +817,26 @@ cmd_simulate(int argc, char **argv)
                                "energy=40uJ,fwhm=120fs --signal-in "
                                "energy=20nJ,fwhm=60fs");
     const char *table = V(O_TABLE) ? V(O_TABLE) : "energy";
+    int model = 0;
+    if (V(O_MODEL)) {
+        if (!strcmp(V(O_MODEL), "low-conversion"))
+            model = DK_MIX_AUTO + 100;
+        else if (!strcmp(V(O_MODEL), "opa-gain"))
+            model = DK_MIX_OPA;
+        else if (strcmp(V(O_MODEL), "full"))
+            return cli_usage_error(simulate_usage, "--model '%s' must be "
+                                                   "full, low-conversion or "
+                                                   "opa-gain",
+                                   V(O_MODEL));
+        if (model && V(O_TABLE) && strcmp(V(O_TABLE), "spectra"))
+            return cli_usage_error(simulate_usage, "--model %s gives spectra "
+                                                   "only: --table spectra",
+                                   V(O_MODEL));
+        if (model && V(O_FIGURE) && strcmp(V(O_FIGURE), "spectra"))
+            return cli_usage_error(simulate_usage, "--model %s draws spectra "
+                                                   "only: --figure spectra",
+                                   V(O_MODEL));
+    }
     const char *figure = V(O_FIGURE) ? V(O_FIGURE) : "spectra";
     if (strcmp(table, "energy") && strcmp(table, "spectra") &&
         strcmp(table, "pulses"))
@@ -671,6 +860,7 @@ cmd_simulate(int argc, char **argv)
     dk_sim_options so = {0};
     dk_error err = {0};
     double area = 0;
+    int out_mode = cm.json ? CLI_JSON : cm.csv ? CLI_CSV : CLI_TEXT;
     if (V(O_BEAM)) {
         double w_mm;
         if (dk_parse_length(V(O_BEAM), &w_mm, &err))
@@ -764,6 +954,11 @@ cmd_simulate(int argc, char **argv)
                          ps[i].pulse.peak_gw_per_cm2, dp->crystal->id,
                          dp->crystal->damage_gw_per_cm2,
                          dp->crystal->damage_pulse);
+    if (model) {
+        rc = run_mix(&out_mode, dp, &prob, &so, model, area, &pa, plot,
+                     figure, table);
+        goto done;
+    }
     if (dk_sim_run(&prob, &so, &res, &err)) {
         cli_error("%s", err.msg);
         goto done;

@@ -184,6 +184,13 @@ expect sim-spectrum-bad 1 "bad.csv' line 3" -- simulate --crystal BBO --pump 800
 if "$DK" simulate $SIMOPA --plot "$tmp/sim/sim.svg" --figure pulses >/dev/null 2>&1 &&
    python3 -c "import xml.dom.minidom; xml.dom.minidom.parse('$tmp/sim/sim.svg')" 2>/dev/null; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: sim-svg-valid"; fi
+MIX="--crystal GaSe --pump 1.65um --signal 2.74um --type I --length 0.5mm --pump-in fluence=0.01mJ/cm2,fwhm=60fs --signal-in fluence=0.01mJ/cm2,fwhm=70fs"
+expect sim-low-conversion 0 'low-conversion model: difference-frequency of the inputs into the idler' -- simulate $MIX --model low-conversion
+expect sim-low-conversion-csv 0 '^frequency_THz,wavelength_um,spectrum_J_per_cm2_THz,phase_rad,pm_modulus,pm_phase_rad' -- simulate $MIX --model low-conversion --csv --table spectra
+json_has sim-low-conversion-json "generated spectral_fwhm_THz transform_limit_fs photon_fraction fluence_J_per_cm2" -- simulate $MIX --model low-conversion --json
+expect sim-opa-gain 0 'largest gain over the seed' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in peak=20GW/cm2,shape=cw --signal-in peak=1e-6GW/cm2,fwhm=100fs --model opa-gain
+expect sim-bad-model 2 "--model 'fast' must be" -- simulate $MIX --model fast
+expect sim-model-inputs 1 'takes the pump' -- simulate --crystal GaSe --pump 1.65um --signal 2.74um --type I --length 0.5mm --pump-in fluence=0.01mJ/cm2,fwhm=60fs --model low-conversion
 no_stdout sim-fail-quiet simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in energy=1uJ,fwhm=50fs
 expect sweep-csv 0 '^period_um,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --csv
 expect sweep-family 0 '^period_um,temp_C,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --family temp=30,100 --csv
