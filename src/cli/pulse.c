@@ -38,6 +38,10 @@ static const char *const pulse_usage[] = {
     "duration after the crystal",
     "  --shape <s>       gaussian (default) or sech2: the pulse shape of "
     "--duration",
+    "  --candidates <list>  more crystals (comma-separated) to rank with "
+    "--crystal for --duration: each",
+    "                    one's design, longest crystal and relative "
+    "efficiency there",
     "With --duration: the longest crystal whose acceptance along each wave "
     "pair supports that pulse.",
     "Noncollinear designs project the GVM as for noncollinear OPAs: pairs "
@@ -66,8 +70,212 @@ triple(const dk_pulse_props *p, size_t offset)
 }
 
 typedef struct pulse_opts {
-    const char *duration, *waist, *shape;
+    const char *duration, *waist, *shape, *candidates;
 } pulse_opts;
+
+/* One candidate crystal of a ranking. */
+typedef struct candidate {
+    char name[64];
+    int ok;
+    char why[DK_ERROR_MSG_MAX];
+    char pol[4];
+    double theta_deg, phi_deg, deff, n[3], walkoff_mrad;
+    double lmax_mm;
+    int limiting;          /* the pair that sets lmax */
+    double merit;          /* (d_eff L_max)² / (n_s n_i n_p) */
+    unsigned range;
+    int qpm;
+    double period_um;
+} candidate;
+
+static int
+by_merit(const void *a, const void *b)
+{
+    const candidate *x = a, *y = b;
+    if (x->ok != y->ok)
+        return y->ok - x->ok;
+    return (y->merit > x->merit) - (y->merit < x->merit);
+}
+
+/* Rank the crystal of --crystal and the --candidates for pulses of
+ * @tau: each one's design (the same options), the longest crystal over
+ * every wave pair, and the low-conversion figure of merit there. */
+static int
+rank_candidates(const cli_common *cm, const cli_design_args *da,
+                const char *list, double tau, dk_pulse_shape shape,
+                int json, const char *const usage[])
+{
+    dk_db *db;
+    if (cli_load_db(&db))
+        return CLI_FAIL;
+    enum { MAXC = 24 };
+    candidate cand[MAXC];
+    int nc = 0, rc = CLI_FAIL;
+    char buf[1024];
+    snprintf(buf, sizeof buf, "%s,%s", cm->crystal, list);
+    for (char *sp = buf, *tok; (tok = strsep(&sp, ","));) {
+        if (!*tok)
+            continue;
+        if (nc == MAXC) {
+            rc = cli_usage_error(usage, "--candidates: at most %d crystals",
+                                 MAXC - 1);
+            goto done;
+        }
+        candidate *k = &cand[nc++];
+        memset(k, 0, sizeof *k);
+        snprintf(k->name, sizeof k->name, "%s", tok);
+        const dk_crystal *c = cli_find_crystal(db, tok);
+        if (!c) {
+            rc = CLI_USAGE;
+            goto done;
+        }
+        dk_design_request rq;
+        if ((rc = cli_design_request(da, ALLOWED, 1, c, tok, NULL, &rq,
+                                     usage)))
+            goto done;
+        dk_design *d = malloc(sizeof *d);
+        dk_error err = {0};
+        if (!d) {
+            rc = cli_error("out of memory");
+            goto done;
+        }
+        if (dk_design_resolve(&rq, d, &err)) {
+            snprintf(k->why, sizeof k->why, "%s", err.msg);
+            free(d);
+            continue;
+        }
+        snprintf(k->name, sizeof k->name, "%s", c->id);
+        k->qpm = d->scheme == DK_SCHEME_QPM;
+        k->period_um = d->period_um;
+        dk_pulse_props pp;
+        if (dk_pulse_props_of(d, &pp, &err)) {
+            snprintf(k->why, sizeof k->why, "%s", err.msg);
+            free(d);
+            continue;
+        }
+        k->deff = dk_design_deff(d);
+        snprintf(k->pol, sizeof k->pol, "%s", d->pol);
+        k->theta_deg = d->theta_rad / DEG;
+        k->phi_deg = d->phi_rad / DEG;
+        for (int j = 0; j < 3; j++) {
+            k->n[j] = pp.w[j].n;
+            k->walkoff_mrad = fmax(k->walkoff_mrad, pp.walkoff_rad[j] * 1e3);
+        }
+        k->range = dk_design_range_flags(d, &d->waves, d->temp_c);
+        k->lmax_mm = INFINITY;
+        k->limiting = -1;
+        int bad = 0;
+        for (int q = 0; q < DK_NPAIRS; q++) {
+            if (!dk_pair_applies(d, (dk_pair)q))
+                continue;
+            double L;
+            dk_status st = dk_design_longest_crystal(d, (dk_pair)q, tau,
+                                                     shape, &L, &err);
+            if (st == DK_ENOROOT)
+                L = 0;
+            else if (st) {
+                snprintf(k->why, sizeof k->why, "%s", err.msg);
+                bad = 1;
+                break;
+            }
+            if (L < k->lmax_mm)
+                k->lmax_mm = L, k->limiting = q;
+        }
+        if (!bad && isfinite(k->deff) && k->deff > 0) {
+            k->ok = 1;
+            double L = isfinite(k->lmax_mm) ? k->lmax_mm : 1e4;
+            k->merit = pow(k->deff * L, 2) / (k->n[0] * k->n[1] * k->n[2]);
+        } else if (!bad) {
+            snprintf(k->why, sizeof k->why, "no usable d_eff");
+        }
+        free(d);
+    }
+    qsort(cand, (size_t)nc, sizeof cand[0], by_merit);
+    double best = cand[0].ok ? cand[0].merit : NAN;
+    cli_out out;
+    if (cli_out_open(&out))
+        goto done;
+    if (json) {
+        json_object *o = json_object_new_object(), *a = json_object_new_array();
+        json_object_object_add(o, "duration_fs", cli_json_num(tau));
+        json_object_object_add(o, "shape", json_object_new_string(
+                                               dk_pulse_shape_str(shape)));
+        for (int i = 0; i < nc; i++) {
+            candidate *k = &cand[i];
+            json_object *e = json_object_new_object();
+            json_object_object_add(e, "crystal", json_object_new_string(k->name));
+            if (!k->ok) {
+                json_object_object_add(e, "error", json_object_new_string(k->why));
+                json_object_array_add(a, e);
+                continue;
+            }
+            json_object_object_add(e, "pol", json_object_new_string(k->pol));
+            if (k->qpm)
+                json_object_object_add(e, "period_um",
+                                       cli_json_num(k->period_um));
+            else
+                json_object_object_add(e, "theta_deg",
+                                       cli_json_num(k->theta_deg));
+            json_object_object_add(e, "deff_pm_per_V", cli_json_num(k->deff));
+            json_object_object_add(e, "longest_crystal_mm",
+                                   cli_json_num(k->lmax_mm));
+            if (k->limiting >= 0)
+                json_object_object_add(
+                    e, "limiting_pair",
+                    json_object_new_string(dk_pair_str((dk_pair)k->limiting,
+                                                       0)));
+            json_object_object_add(e, "walkoff_mrad",
+                                   cli_json_num(k->walkoff_mrad));
+            json_object_object_add(e, "merit_relative",
+                                   cli_json_num(k->merit / best));
+            cli_flags_json(e, k->range, 0);
+            json_object_array_add(a, e);
+        }
+        json_object_object_add(o, "ranking", a);
+        cli_notes_to_json(o);
+        cli_out_json(&out, o);
+    } else {
+        fprintf(out.f, "candidates for %.4g fs %s pulses, ranked by (d_eff "
+                       "L_max)^2 / (n_s n_i n_p) at the longest crystal "
+                       "that supports them\n\n",
+                tau, dk_pulse_shape_str(shape));
+        fprintf(out.f, "  %-4s %-12s %-5s %16s %8s %10s %-14s %9s %8s\n",
+                "rank", "crystal", "modes", "theta deg / um", "d_eff",
+                "L_max mm", "limiting pair", "walk-off", "merit");
+        for (int i = 0; i < nc; i++) {
+            candidate *k = &cand[i];
+            if (!k->ok) {
+                fprintf(out.f, "  %-4s %-12s no design: %s\n", "-", k->name,
+                        k->why);
+                continue;
+            }
+            char lm[24], where[32];
+            if (isfinite(k->lmax_mm))
+                snprintf(lm, sizeof lm, "%.3g", k->lmax_mm);
+            else
+                snprintf(lm, sizeof lm, "any");
+            snprintf(where, sizeof where, k->qpm ? "%.3f um" : "%.3f",
+                     k->qpm ? k->period_um : k->theta_deg);
+            fprintf(out.f, "  %-4d %-12s %-5s %16s %8.3g %10s %-14s %9.3g "
+                           "%8.3f%s\n",
+                    i + 1, k->name, k->pol, where, k->deff, lm,
+                    k->limiting >= 0 ? dk_pair_str((dk_pair)k->limiting, 0)
+                                     : "-",
+                    k->walkoff_mrad, k->merit / best,
+                    k->range ? "  [extrapolated]" : "");
+        }
+        fprintf(out.f, "\n  L_max: the shortest over the wave pairs of the "
+                       "length whose acceptance equals the pulse's spectral "
+                       "FWHM; walk-off: the largest, mrad\n"
+                       "  merit: relative low-conversion efficiency at L_max "
+                       "(plane waves; walk-off, absorption and damage "
+                       "not included)\n");
+    }
+    rc = cli_out_commit(&out);
+done:
+    dk_db_free(db);
+    return rc;
+}
 
 static int
 pulse_option(int ch, const char *arg, void *ctx)
@@ -77,6 +285,7 @@ pulse_option(int ch, const char *arg, void *ctx)
     case 'D': po->duration = arg; return 0;
     case 'W': po->waist = arg; return 0;
     case 'S': po->shape = arg; return 0;
+    case 'R': po->candidates = arg; return 0;
     }
     return -1;
 }
@@ -90,11 +299,12 @@ cmd_pulse(int argc, char **argv)
         {"duration", required_argument, NULL, 'D'},
         {"waist", required_argument, NULL, 'W'},
         {"shape", required_argument, NULL, 'S'},
+        {"candidates", required_argument, NULL, 'R'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
     int rc;
-    pulse_opts po = {NULL, NULL, NULL};
+    pulse_opts po = {NULL, NULL, NULL, NULL};
     if ((rc = cli_parse_options(argc, argv, opts, pulse_usage, &cm, &da, NULL,
                                 pulse_option, &po, NULL, NULL)))
         return rc == CLI_HELP ? 0 : rc;
@@ -118,6 +328,12 @@ cmd_pulse(int argc, char **argv)
     if (po.shape && !dur_s)
         return cli_usage_error(pulse_usage, "--shape describes --duration; "
                                             "give --duration too");
+    if (po.candidates && !dur_s)
+        return cli_usage_error(pulse_usage, "--candidates ranks crystals for "
+                                            "a pulse: give --duration too");
+    if (po.candidates)
+        return rank_candidates(&cm, &da, po.candidates, tau, shape, cm.json,
+                               pulse_usage);
 
     dk_db *db;
     dk_design *dp;

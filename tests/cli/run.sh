@@ -147,6 +147,10 @@ json_has gain-json-regime "gain_fwhm.regime gain_fwhm.estimate_THz gain_fwhm.low
 expect pulse-longest 0 'signal-idler \(pump\) +[0-9.]+ +[0-9.]+ +[0-9.]+' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
 expect pulse-after 0 'pulse after 2 mm in its own mode' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
 expect pulse-bad-shape 2 "--shape 'square' must be gaussian or sech2" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --shape square
+expect pulse-rank 0 '^  1 +LiGaS2' -- pulse --crystal GaSe --candidates AgGaS2,LGS --pump 1.65um --signal 2.74um --type I --duration 65fs
+expect pulse-rank-needs-duration 2 '--candidates ranks crystals for a pulse' -- pulse --crystal GaSe --candidates AgGaS2 --pump 1.65um --signal 2.74um --type I
+expect pulse-rank-unknown 2 "unknown crystal 'unobtainium'" -- pulse --crystal GaSe --candidates unobtainium --pump 1.65um --signal 2.74um --type I --duration 65fs
+json_has pulse-rank-json "ranking.0.crystal ranking.0.longest_crystal_mm ranking.0.merit_relative" -- pulse --crystal GaSe --candidates AgGaS2 --pump 1.65um --signal 2.74um --type I --duration 65fs --json
 json_has pulse-json-pairs "pairs.0.longest_crystal_mm pairs.0.acceptance_THz after_crystal.pump.fwhm_fs" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm --json
 
 # deltak simulate: the pulse simulator over a design.
