@@ -66,7 +66,8 @@ typedef struct dk_mix_result {
     double fluence_j_per_cm2[3];/* out, per wave */
     double energy_j[3];         /* NAN without a beam area */
     double photon_fraction;     /* photons made / photons of the scarcer
-                                 * input (low conversion: ≪ 1) */
+                                 * input (OPA: of the pump); the model
+                                 * holds while ≪ 1 */
     double centre_thz, fwhm_thz;/* of the generated spectrum (outermost
                                  * half-maximum points) */
     double transform_limit_fs;  /* of the generated spectrum, flat phase */

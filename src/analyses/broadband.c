@@ -369,7 +369,7 @@ dk_mix_spectrum(const dk_sim_problem *p, const dk_sim_options *opt,
         double made = r->fluence_j_per_cm2[gen] / s->omega0[stored[gen]];
         double have = INFINITY;
         for (int t = 0; t < 2; t++)
-            if (r->frequency_thz[ins[t]])
+            if (r->frequency_thz[ins[t]] && (kind != DK_MIX_OPA || ins[t] == 2))
                 have = fmin(have, r->fluence_j_per_cm2[ins[t]] /
                                       s->omega0[stored[ins[t]]]);
         r->photon_fraction = have > 0 ? made / have : NAN;

@@ -181,7 +181,7 @@ rank_candidates(const cli_common *cm, const cli_design_args *da,
             if (L < k->lmax_mm)
                 k->lmax_mm = L, k->limiting = q;
         }
-        if (!bad && isfinite(k->deff) && k->deff > 0) {
+        if (!bad && isfinite(k->deff) && k->deff > 1e-6) {
             k->ok = 1;
             double L = isfinite(k->lmax_mm) ? k->lmax_mm : 1e4;
             k->merit = pow(k->deff * L, 2) / (k->n[0] * k->n[1] * k->n[2]);

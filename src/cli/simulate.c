@@ -609,9 +609,10 @@ run_mix(const int *mode, dk_design *d, const dk_sim_problem *p,
     const char *gname = p->wave[g].name;
     size_t n = m->n;
     if (m->photon_fraction > 0.05)
-        cli_warn("the %s takes %.2g of the scarcer input's photons: beyond "
-                 "the low-conversion limit; use --model full",
-                 gname, m->photon_fraction);
+        cli_warn("the %s takes %.2g of the %s photons: beyond the "
+                 "low-conversion limit; use --model full",
+                 gname, m->photon_fraction,
+                 m->kind == DK_MIX_OPA ? "pump's" : "scarcer input's");
     cli_warn("laser safety: these are Class 3B/4 pulses and the infrared "
              "outputs are invisible; wear eye protection rated for every "
              "wavelength present, dump the residual pump, keep below the "
@@ -735,13 +736,17 @@ run_mix(const int *mode, dk_design *d, const dk_sim_problem *p,
         fprintf(out.f, "  fluence %.4g mJ/cm2", m->fluence_j_per_cm2[g] * 1e3);
         if (area > 0)
             fprintf(out.f, ", energy %.4g nJ", m->energy_j[g] * 1e9);
-        fprintf(out.f, "; photons made / photons of the scarcer input "
-                       "%.3g\n",
+        fprintf(out.f, "; photons made / photons of the %s %.3g\n",
+                m->kind == DK_MIX_OPA ? "pump" : "scarcer input",
                 m->photon_fraction);
-        if (m->kind == DK_MIX_OPA)
+        if (m->kind == DK_MIX_OPA) {
             fprintf(out.f, "  largest gain over the seed's band %.4g; "
-                           "amplified signal %.4g mJ/cm2\n",
+                           "amplified signal %.4g mJ/cm2",
                     m->gain_peak, m->fluence_j_per_cm2[0] * 1e3);
+            if (area > 0)
+                fprintf(out.f, " (%.4g nJ)", m->energy_j[0] * 1e9);
+            fputc('\n', out.f);
+        }
         if (plot)
             fprintf(out.f, "  wrote %s\n", plot);
     }
