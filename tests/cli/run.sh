@@ -308,6 +308,17 @@ printf 'report: out/p.md\nsweep --crystal MgO:LN --pump 1064nm --vary period=28u
 expect run-figure 0 'ran 1 steps' -- run "$tmp/proj/p.dk"
 if [ -s "$tmp/proj/out/t.svg" ] && grep -q '(t.svg)' "$tmp/proj/out/p.md"; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-figure-beside-report"; fi
+# The few-cycle scenarios of examples/ carried out end to end (a copy, so
+# that their out/ folder lands in the temporary folder).
+mkdir -p "$tmp/ex"
+for ex in harrowgate-midir-dfg kestrel-bbo-opa; do
+    cp "examples/$ex.dk" "$tmp/ex/"
+    expect "example-$ex" 0 "ran [0-9]+ steps" -- run "$tmp/ex/$ex.dk"
+    if grep -q 'converged' "$tmp/ex/out/$ex.md" && grep -q 'longest crystal' "$tmp/ex/out/$ex.md" &&
+       grep -q 'Manley-Rowe' "$tmp/ex/out/$ex.md" && [ "$(ls "$tmp/ex/out/" | grep -c '\.svg$')" -ge 3 ]; then
+        pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: example-$ex-report"; fi
+    rm -rf "$tmp/ex/out"
+done
 # Write errors on standard output are failures, not silent successes.
 if [ -w /dev/full ]; then
     for c in --version --help "run $tmp/ok.dk" "crystals"; do
