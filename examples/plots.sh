@@ -27,3 +27,16 @@ fig bbo-shg-angle-vs-wavelength sweep --crystal BBO --fundamental 1030nm \
     --type I --vary fundamental=0.6um:2.0um --solve theta
 fig bbo-opa-gvm sweep --crystal BBO --pump 800nm --signal 1300nm --type I \
     --vary signal=1.1um:1.55um --solve gvm
+# Few-cycle design (examples/harrowgate-midir-dfg.dk, examples/kestrel-bbo-opa.dk)
+fig lgs-dfg-low-conversion-spectrum simulate --crystal LGS --pump 1.65um \
+    --signal 2.74um --type I --length 2mm --pump-in energy=10uJ,fwhm=65fs \
+    --signal-in energy=6uJ,fwhm=70fs --beam-radius 2mm --model low-conversion
+fig lgs-dfg-simulated-pulses simulate --crystal LGS --pump 1.65um \
+    --signal 2.74um --type I --length 2mm --pump-in energy=10uJ,fwhm=65fs \
+    --signal-in energy=6uJ,fwhm=70fs --beam-radius 2mm --figure pulses
+fig bbo-opa-simulated-spectra simulate --crystal BBO --pump 800nm \
+    --signal 1300nm --type I --length 2mm --pump-in energy=200uJ,fwhm=120fs \
+    --signal-in energy=5nJ,width=40nm --beam-radius 1.5mm
+fig bbo-opa-simulated-energy simulate --crystal BBO --pump 800nm \
+    --signal 1300nm --type I --length 2mm --pump-in energy=200uJ,fwhm=120fs \
+    --signal-in energy=5nJ,width=40nm --beam-radius 1.5mm --figure energy

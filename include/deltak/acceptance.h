@@ -10,6 +10,18 @@
  * matched points, turning points). Beside it:
  *   linear estimate     Δx = 2·2.78311 / (L |Δk'|)
  *   quadratic estimate  Δx = 2·√(2·2.78311 / (L |Δk''|))  (noncritical)
+ *
+ * Broad and turning-over curves. The outward search runs to the ends of
+ * the domain the caller gives (for a design: the transparency, the whole
+ * range of angles); a side on which sinc² never falls to ½ before that
+ * end is reported "open" with the end as its edge, an answer rather than
+ * a failure. dk_acceptance_lobes() then samples the whole domain and
+ * finds every interval where sinc² ≥ ½ (a second phase-matching point,
+ * a Δk that turns over before it reaches the half level). Intervals
+ * separated from the central one by a gap narrower than the band they
+ * join form one double-humped band, whose outer FWHM is given beside the
+ * central lobe's; farther ones are other phase-matching points (e.g. the
+ * signal and idler trading places), listed but not counted in the width.
  * Reference: R. W. Boyd, Nonlinear Optics, 3rd ed. (2008), §2.2–2.3;
  * Dmitriev et al., Handbook of Nonlinear Optical Crystals (1999), §1.3.
  */
@@ -29,7 +41,35 @@ typedef struct dk_acceptance {
     double quadratic_fwhm; /* second-order estimate; INFINITY if Δk'' = 0 */
     double slope;          /* dΔk/dx at the peak, rad/µm per unit x */
     int bounded;           /* 1 when both half-maximum points were found */
+    int open_lo, open_hi;  /* 1: sinc² stays above ½ to the end of the
+                            * domain on that side (lo/hi hold that end;
+                            * fwhm is then a lower bound) */
 } dk_acceptance;
+
+#define DK_ACCEPTANCE_MAX_LOBES 16
+
+/* Every interval of a domain where sinc²(ΔkL/2) ≥ ½. */
+typedef struct dk_acceptance_lobes {
+    int n;                               /* intervals found, ≤ MAX_LOBES */
+    int central;                         /* index of the one holding the
+                                          * operating point; -1: none */
+    double lo[DK_ACCEPTANCE_MAX_LOBES];  /* ascending, disjoint */
+    double hi[DK_ACCEPTANCE_MAX_LOBES];
+    int open_lo, open_hi;                /* the first / last interval
+                                          * reaches the domain's end */
+    int group_first, group_last;         /* the central interval and the
+                                          * neighbours joined to it: each
+                                          * gap narrower than the band
+                                          * joined so far (a double hump,
+                                          * not a distant second phase-
+                                          * matching point) */
+    double outer_lo, outer_hi;           /* lo[group_first], hi[group_last] */
+    double outer_fwhm;                   /* outer_hi − outer_lo: the width
+                                          * between the outermost half-
+                                          * maximum points of the group */
+    int contiguous;                      /* 1: the group is one interval */
+    int truncated;                       /* more than MAX_LOBES intervals */
+} dk_acceptance_lobes;
 
 /* sinc x = sin x / x, with its limit 1 at x = 0 (series below 1e-4). */
 double dk_sinc(double x);
@@ -46,12 +86,31 @@ double dk_sinc2(double dk_rad_per_um, double length_um);
  * @step: a small natural step of x for derivatives and the outward search
  * @xmin, @xmax: the search never leaves [xmin, xmax]
  *
- * Returns: DK_OK (out->bounded = 0 when a half-maximum point lies beyond
- * the search limits); DK_EINVAL for a bad length or step; DK_EDOM when
+ * Returns: DK_OK (out->bounded = 0 and open_lo/open_hi set when sinc²
+ * stays above ½ to a search limit, or to where Δk stops being defined;
+ * lo/hi then hold that limit); DK_EINVAL for a bad length or step; DK_EDOM when
  * Δk is not finite at x0.
  */
 dk_status dk_acceptance_fwhm(dk_scalar_fn dk, void *params, double x0,
                              double length_um, double step, double xmin,
                              double xmax, dk_acceptance *out, dk_error *err);
+
+/*
+ * dk_acceptance_lobes:
+ * Every interval of [@xmin, @xmax] in which sinc²(Δk(x) L/2) ≥ ½: the
+ * domain is sampled at @nsamples points (≥ 16), each change of side is
+ * refined with Brent's method, each sign change of Δk between two samples
+ * that are both outside is refined to its root and the interval around it
+ * found (a narrow lobe between samples). Points where Δk is NAN split the
+ * domain. @central is the acceptance of dk_acceptance_fwhm() over the
+ * same domain (or NULL): its interval replaces the sampled one, so the
+ * central lobe is exact however narrow.
+ * Returns: DK_OK (out->n may be 0); DK_EINVAL for a bad length, domain or
+ * sample count.
+ */
+dk_status dk_acceptance_lobes_scan(dk_scalar_fn dk, void *params,
+                                   double length_um, double xmin, double xmax,
+                                   int nsamples, const dk_acceptance *central,
+                                   dk_acceptance_lobes *out, dk_error *err);
 
 #endif /* DK_ACCEPTANCE_H */

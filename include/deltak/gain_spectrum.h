@@ -19,6 +19,14 @@
 #include "deltak/pulse.h"
 #include "deltak/tolerance.h"
 
+/* ΓL at which the low-gain width 4·1.39156/L and the high-gain width
+ * 4 (ln2 Γ/L)^½ of Δk are equal: (1.39156)²/ln2 = 2.7937. Below it the
+ * gain band is the sinc² acceptance, above it the high-gain formula
+ * (R. L. Byer, in Quantum Electronics, Vol. I, Academic Press (1975);
+ * Cerullo and De Silvestri, Rev. Sci. Instrum. 74, 1 (2003), eq. 9 —
+ * the crossover is our algebra on the two limits). */
+#define DK_GAIN_REGIME_GL 2.7937
+
 /* G at signal wavelength @signal_um; NAN where undefined. */
 double dk_design_gain(dk_design *d, double gamma_per_mm, double signal_um);
 
@@ -45,6 +53,14 @@ typedef struct dk_opa_result {
     double band_thz;          /* the same in frequency */
     double first_order_thz;   /* high-gain estimate from the signal-idler
                                * GVM (deltak/gain.h); NAN when GVM = 0 */
+    double low_gain_thz;      /* low-gain estimate: the sinc² width
+                               * 4·1.39156/(2π L |GVM|) = 0.8859/(L|GVM|);
+                               * NAN when GVM = 0 */
+    int high_gain;            /* 1 when ΓL > DK_GAIN_REGIME_GL: the
+                               * high-gain estimate is the one that
+                               * applies, else the low-gain one */
+    double estimate_thz;      /* the estimate of the regime (one of the
+                               * two above) */
     dk_pulse_props pulse;     /* indices, GVM at the operating point */
 } dk_opa_result;
 

@@ -53,18 +53,39 @@ int dk_design_applies(const dk_design *d, dk_tol_param p);
  * dk_design_tolerance:
  * The acceptance along @p about the operating point, in the units of x
  * listed at dk_tol_param.
- * Returns: DK_OK; DK_EINVAL when @p does not apply; DK_EDOM when Δk is
- * undefined at the operating point.
+ * The search runs over the parameter's whole domain (see
+ * dk_design_acceptance_lobes); where sinc² stays above ½ to the domain's
+ * end, open_lo/open_hi say so and lo/hi hold the end.
+ * Returns: DK_OK; DK_EINVAL when @p does not apply or the design has no
+ * length; DK_EDOM when Δk is undefined at the operating point.
  */
 dk_status dk_design_tolerance(dk_design *d, dk_tol_param p,
                               dk_acceptance *out, dk_error *err);
 
 /*
+ * dk_design_acceptance_lobes:
+ * The acceptance along @p (@acc, as dk_design_tolerance) and every
+ * interval of the parameter's whole domain where sinc² ≥ ½ (@lobes,
+ * deltak/acceptance.h): a double-humped or turning-over curve gets its
+ * outer FWHM. @domain (may be NULL) gets the domain searched: wavelengths
+ * where every wave is inside the transparency, ±300 °C, θ and φ ±π/4
+ * about the operating point (θ inside [0, π]), the period over a factor of 2, the tilt
+ * ±1.2 rad.
+ * Returns: as dk_design_tolerance; DK_ENOMEM.
+ */
+dk_status dk_design_acceptance_lobes(dk_design *d, dk_tol_param p,
+                                     dk_acceptance *acc,
+                                     dk_acceptance_lobes *lobes,
+                                     double domain[2], dk_error *err);
+
+/*
  * dk_design_acceptance_curve:
- * sinc²(ΔkL/2) along @p at @n points evenly over ±@span_fwhm FWHM about
- * the peak (x in the units of dk_tol_param); @acc gets the acceptance.
- * Returns: DK_OK; DK_EINVAL (n < 2, p not applicable); DK_ENOROOT when
- * the acceptance is unbounded in the search range (no curve to draw).
+ * sinc²(ΔkL/2) along @p at @n points evenly over ±@span_fwhm times the
+ * distance between the outermost half-maximum points (every lobe), about
+ * their centre and inside the domain (x in the units of dk_tol_param);
+ * @acc gets the acceptance.
+ * Returns: DK_OK; DK_EINVAL (n < 2, p not applicable); DK_ENOROOT when no
+ * half-maximum interval could be found (Δk undefined about the point).
  */
 dk_status dk_design_acceptance_curve(dk_design *d, dk_tol_param p,
                                      double span_fwhm, int n, double *x,

@@ -81,7 +81,7 @@ dk_design_opa(dk_design *d, double pump_gw_per_cm2, dk_opa_result *out,
 {
     dk_opa_result *r = out;
     *r = (dk_opa_result){0};
-    r->first_order_thz = NAN;
+    r->first_order_thz = r->low_gain_thz = r->estimate_thz = NAN;
     dk_status s = dk_pulse_props_of(d, &r->pulse, err);
     if (s)
         return s;
@@ -108,9 +108,17 @@ dk_design_opa(dk_design *d, double pump_gw_per_cm2, dk_opa_result *out,
         return s;
     /* Matched group velocities (the broadband geometry): the first-order
      * estimate diverges and does not apply. */
-    if (fabs(pp->gvm_fs_per_mm[2]) > 1e-3)
+    if (fabs(pp->gvm_fs_per_mm[2]) > 1e-3) {
         dk_opa_bandwidth_thz(r->gamma_per_mm, d->length_mm,
                              pp->gvm_fs_per_mm[2], &r->first_order_thz, NULL);
+        /* Δk = 2π Δν GVM: the sinc² width 4·1.39156/L in frequency
+         * (GVM fs/mm, L mm: THz = 1e3 / (fs)). */
+        r->low_gain_thz = 1e3 * 4 * DK_SINC2_HALF_U /
+                          (2 * M_PI * d->length_mm *
+                           fabs(pp->gvm_fs_per_mm[2]));
+    }
+    r->high_gain = r->gamma_per_mm * d->length_mm > DK_GAIN_REGIME_GL;
+    r->estimate_thz = r->high_gain ? r->first_order_thz : r->low_gain_thz;
     if (dk_design_gain_fwhm(d, r->gamma_per_mm, &r->signal_lo_um,
                             &r->signal_hi_um, err) == DK_OK) {
         r->have_band = 1;

@@ -2,12 +2,15 @@
  * tolerance.c - acceptance widths of a design (see deltak/tolerance.h).
  *
  * Each parameter gets a natural step for the outward search (0.01 °C,
- * 0.01 nm relative 1e-5, 1e-5 rad, 1e-4 of the period) and a search range
- * wide enough for noncritical widths (±300 °C, ±30 % in wavelength,
- * ±0.5 rad, ±20 % in period) but limited to where the model is defined.
+ * relative 1e-5 in wavelength, 1e-5 rad, 1e-4 of the period) and the
+ * whole domain where the model is defined as its search range (see
+ * domain_of), so that broad, noncritical and turning-over acceptances
+ * get a width, or an open side at the domain's end, never a failure.
  */
 #include <math.h>
 #include <string.h>
+
+#define LOBE_SAMPLES 4001   /* samples of the whole domain */
 
 #include "deltak/material.h"
 #include "deltak/tolerance.h"
@@ -109,6 +112,62 @@ dk_at(double x, void *pp)
     return dk_design_delta_k(pr->d, pr->p, x);
 }
 
+/* The whole domain of parameter @p: where the outward search may go and
+ * where dk_design_acceptance_lobes samples. Wavelengths stay where every
+ * wave is inside the transparency (energy conserved); temperatures within
+ * ±300 °C of the operating point (above absolute zero); θ over [0, π],
+ * φ over ±π/2, the period over a factor of 2, the tilt over ±1.2 rad. */
+static void
+domain_of(const dk_design *d, dk_tol_param p, double x0, double *step,
+          double *lo, double *hi)
+{
+    const double t0 = d->crystal->transparency_um[0],
+                 t1 = d->crystal->transparency_um[1];
+    const double eps = 1e-9;
+    switch (p) {
+    case DK_TOL_TEMPERATURE:
+        *step = 0.01, *lo = fmax(x0 - 300, -273), *hi = x0 + 300;
+        return;
+    case DK_TOL_SIGNAL:
+        *step = 1e-5 * x0;
+        if (d->shg) {
+            /* fundamental and its harmonic inside the transparency */
+            *lo = 2 * t0 * (1 + eps), *hi = t1 * (1 - eps);
+        } else {
+            /* pump fixed: signal and idler both inside */
+            double ip = 1 / d->waves.pump_um;
+            *lo = fmax(t0, 1 / (ip - 1 / t1)) * (1 + eps);
+            *hi = ip > 1 / t0 ? fmin(t1, 1 / (ip - 1 / t0)) : t1;
+            *hi *= 1 - eps;
+        }
+        break;
+    case DK_TOL_PUMP: {
+        /* signal fixed: the idler 1/(1/λp − 1/λs) inside */
+        double is = 1 / d->waves.signal_um;
+        *step = 1e-5 * x0;
+        *lo = fmax(t0, 1 / (is + 1 / t0)) * (1 + eps);
+        *hi = fmin(1 / (is + 1 / t1), d->waves.signal_um) * (1 - eps);
+        break;
+    }
+    case DK_TOL_THETA:
+        *step = 1e-5, *lo = fmax(0, x0 - M_PI / 4);
+        *hi = fmin(M_PI, x0 + M_PI / 4);
+        break;
+    case DK_TOL_PHI:
+        *step = 1e-5, *lo = x0 - M_PI / 4, *hi = x0 + M_PI / 4;
+        break;
+    case DK_TOL_PERIOD:
+        *step = 1e-4 * x0, *lo = 0.5 * x0, *hi = 2 * x0;
+        break;
+    case DK_TOL_TILT:
+        *step = 1e-4, *lo = -1.2, *hi = 1.2;
+        break;
+    }
+    /* The operating point is always inside. */
+    *lo = fmin(*lo, x0);
+    *hi = fmax(*hi, x0);
+}
+
 dk_status
 dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
                     dk_error *err)
@@ -116,34 +175,13 @@ dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
     if (!dk_design_applies(d, p))
         return dk_error_set(err, DK_EINVAL,
                             "this acceptance does not apply to the design");
+    if (!(d->length_mm > 0))
+        return dk_error_set(err, DK_EINVAL,
+                            "an acceptance needs the crystal length (e.g. "
+                            "--length 10mm)");
     double x0 = dk_design_operating_value(d, p);
     double step, lo, hi;
-    switch (p) {
-    case DK_TOL_TEMPERATURE:
-        step = 0.01, lo = x0 - 300, hi = x0 + 300;
-        lo = fmax(lo, -270);
-        break;
-    case DK_TOL_SIGNAL:
-    case DK_TOL_PUMP:
-        step = 1e-5 * x0, lo = 0.7 * x0, hi = 1.3 * x0;
-        if (p == DK_TOL_SIGNAL && !d->shg)
-            lo = fmax(lo, d->waves.pump_um * (1 + 1e-6));
-        if (p == DK_TOL_PUMP)
-            hi = fmin(hi, d->waves.signal_um * (1 - 1e-6));
-        break;
-    case DK_TOL_THETA:
-    case DK_TOL_PHI:
-        step = 1e-5, lo = x0 - 0.5, hi = x0 + 0.5;
-        break;
-    case DK_TOL_PERIOD:
-        step = 1e-4 * x0, lo = 0.8 * x0, hi = 1.2 * x0;
-        break;
-    case DK_TOL_TILT:
-        step = 1e-4, lo = -0.5, hi = 0.5;
-        break;
-    default:
-        return dk_error_set(err, DK_EINVAL, "unknown acceptance parameter");
-    }
+    domain_of(d, p, x0, &step, &lo, &hi);
     probe pr = {d, p};
     dk_status s = dk_acceptance_fwhm(dk_at, &pr, x0, d->length_mm * 1e3, step,
                                      lo, hi, out, err);
@@ -156,6 +194,22 @@ dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
     return DK_OK;
 }
 
+dk_status
+dk_design_acceptance_lobes(dk_design *d, dk_tol_param p, dk_acceptance *acc,
+                           dk_acceptance_lobes *lobes, double domain[2],
+                           dk_error *err)
+{
+    dk_status s = dk_design_tolerance(d, p, acc, err);
+    if (s)
+        return s;
+    double x0 = dk_design_operating_value(d, p), step, lo, hi;
+    domain_of(d, p, x0, &step, &lo, &hi);
+    if (domain)
+        domain[0] = lo, domain[1] = hi;
+    probe pr = {d, p};
+    return dk_acceptance_lobes_scan(dk_at, &pr, d->length_mm * 1e3, lo, hi,
+                                    LOBE_SAMPLES, acc, lobes, err);
+}
 
 dk_status
 dk_design_acceptance_curve(dk_design *d, dk_tol_param p, double span_fwhm,
@@ -165,16 +219,24 @@ dk_design_acceptance_curve(dk_design *d, dk_tol_param p, double span_fwhm,
     if (n < 2 || !(span_fwhm > 0))
         return dk_error_set(err, DK_EINVAL,
                             "an acceptance curve needs 2 or more points");
-    dk_status s = dk_design_tolerance(d, p, acc, err);
+    dk_acceptance_lobes lb;
+    double dom[2];
+    dk_status s = dk_design_acceptance_lobes(d, p, acc, &lb, dom, err);
     if (s)
         return s;
-    if (!acc->bounded)
+    /* Span the outermost half-maximum points (every lobe), centred on
+     * them, @span_fwhm times their distance each way, inside the domain. */
+    double a = acc->lo, b = acc->hi;
+    if (lb.n > 0)
+        a = fmin(a, lb.lo[0]), b = fmax(b, lb.hi[lb.n - 1]);
+    if (!isfinite(a) || !isfinite(b) || !(b > a))
         return dk_error_set(err, DK_ENOROOT,
-                            "the acceptance is unbounded in the search "
-                            "range; no curve to draw");
-    double w = acc->fwhm, x0 = acc->peak;
+                            "the acceptance curve could not be bounded");
+    double c = 0.5 * (a + b), w = b - a;
+    double x0 = fmax(dom[0], c - span_fwhm * w),
+           x1 = fmin(dom[1], c + span_fwhm * w);
     for (int k = 0; k < n; k++) {
-        x[k] = x0 - span_fwhm * w + 2 * span_fwhm * w * k / (n - 1);
+        x[k] = x0 + (x1 - x0) * k / (n - 1);
         double dk = dk_design_delta_k(d, p, x[k]);
         sinc2[k] = isfinite(dk) ? dk_sinc2(dk, d->length_mm * 1e3) : NAN;
     }

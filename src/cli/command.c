@@ -29,6 +29,8 @@ const cli_cmd cli_commands[] = {
      "group velocities, GVM, GVD, pulse-splitting and walk-off lengths"},
     {"run", cmd_run, 0,
      "carry out a design file: every step, figures and a report"},
+    {"simulate", cmd_simulate, 1,
+     "pulsed three-wave mixing along the crystal: spectra, pulses, energies"},
     {"sweep", cmd_sweep, 1,
      "tuning curves (1-D) and phase-matching maps (2-D), with --plot"},
     {"tolerance", cmd_tolerance, 1,

@@ -22,6 +22,7 @@ int cmd_index(int argc, char **argv);
 int cmd_period(int argc, char **argv);
 int cmd_pulse(int argc, char **argv);
 int cmd_run(int argc, char **argv);
+int cmd_simulate(int argc, char **argv);
 int cmd_sweep(int argc, char **argv);
 int cmd_tolerance(int argc, char **argv);
 

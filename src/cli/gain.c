@@ -12,6 +12,7 @@
 #include "options.h"
 #include "commands.h"
 #include "design_args.h"
+#include "deltak/bandwidth.h"
 #include "deltak/gain_spectrum.h"
 #include "deltak/plot.h"
 #include "deltak/pulse.h"
@@ -289,12 +290,27 @@ cmd_gain(int argc, char **argv)
                         1e4 * (1 / r.signal_lo_um - 1 / r.signal_hi_um),
                         r.band_thz, r.idler_lo_um, r.idler_hi_um,
                         (r.idler_hi_um - r.idler_lo_um) * 1e3);
-            if (isfinite(r.first_order_thz))
-                fprintf(f, "  first-order estimate from the signal-idler GVM "
-                           "(%.3g fs/mm%s): %.4g THz\n",
+            if (r.have_band)
+                fprintf(f, "  exact gain bandwidth %.4g THz: supports a "
+                           "transform-limited %.4g fs Gaussian or %.4g fs "
+                           "sech2 pulse\n",
+                        r.band_thz,
+                        dk_transform_limit_fs(r.band_thz, DK_SHAPE_GAUSSIAN),
+                        dk_transform_limit_fs(r.band_thz, DK_SHAPE_SECH2));
+            if (isfinite(r.estimate_thz))
+                fprintf(f, "  %s-gain estimate (Gamma L %s %.4g) from the "
+                           "signal-idler GVM (%.3g fs/mm%s): %.4g THz%s\n",
+                        r.high_gain ? "high" : "low",
+                        r.high_gain ? ">" : "<=", DK_GAIN_REGIME_GL,
                         r.pulse.gvm_fs_per_mm[2],
                         r.pulse.noncollinear ? ", projected" : "",
-                        r.first_order_thz);
+                        r.estimate_thz,
+                        r.high_gain ? " [(2 sqrt(ln2)/pi) sqrt(Gamma/L)/|GVM|]"
+                                    : " [sinc^2 width 0.886/(L |GVM|)]");
+            else
+                fprintf(f, "  signal and idler group velocities matched: "
+                           "first-order estimates do not apply (the band is "
+                           "set by GVD)\n");
             json_object_object_add(o, "intensity_GW_per_cm2",
                                    cli_json_num(inten));
             json_object_object_add(o, "gamma_per_mm",
@@ -313,6 +329,29 @@ cmd_gain(int argc, char **argv)
             if (isfinite(r.first_order_thz))
                 json_object_object_add(bw, "first_order_THz",
                                        cli_json_num(r.first_order_thz));
+            if (isfinite(r.first_order_thz))
+                json_object_object_add(bw, "high_gain_estimate_THz",
+                                       cli_json_num(r.first_order_thz));
+            if (isfinite(r.low_gain_thz))
+                json_object_object_add(bw, "low_gain_estimate_THz",
+                                       cli_json_num(r.low_gain_thz));
+            json_object_object_add(bw, "regime",
+                                   json_object_new_string(r.high_gain
+                                                              ? "high gain"
+                                                              : "low gain"));
+            if (isfinite(r.estimate_thz))
+                json_object_object_add(bw, "estimate_THz",
+                                       cli_json_num(r.estimate_thz));
+            if (r.have_band) {
+                json_object_object_add(
+                    bw, "transform_limit_gaussian_fs",
+                    cli_json_num(dk_transform_limit_fs(r.band_thz,
+                                                       DK_SHAPE_GAUSSIAN)));
+                json_object_object_add(
+                    bw, "transform_limit_sech2_fs",
+                    cli_json_num(dk_transform_limit_fs(r.band_thz,
+                                                       DK_SHAPE_SECH2)));
+            }
             json_object_object_add(o, "gain_fwhm", bw);
             if (isfinite(seed)) {
                 double out_i;

@@ -12,6 +12,7 @@
 #include "commands.h"
 #include "design_args.h"
 #include "options.h"
+#include "deltak/bandwidth.h"
 #include "deltak/pulse.h"
 #include "deltak/constants.h"
 #include "deltak/units.h"
@@ -23,14 +24,26 @@ static const char *const pulse_usage[] = {
     "[--theta <deg>] [--solution <n>]]",
     "             [--noncollinear <deg> | --broadband] [--phi <deg>] "
     "[--plane XY|YZ|XZ]",
-    "             [--duration <tau>] [--waist <w0>] [--length <L>] "
-    "[--dispersion <set>] [--json]",
+    "             [--duration <tau> [--shape gaussian|sech2]] [--waist <w0>] "
+    "[--length <L>]",
+    "             [--dispersion <set>] [--json]",
     "",
     "  --duration <tau>  pulse duration (e.g. 30fs): pulse-splitting "
     "lengths tau/|GVM|",
     "  --waist <w0>      beam waist radius (e.g. 100um): walk-off aperture "
     "lengths",
-    "  --length <L>      crystal length: delay accumulated over it",
+    "  --length <L>      crystal length: delay accumulated over it, the "
+    "acceptance of each wave pair in",
+    "                    THz and the pulse it supports, each wave's "
+    "duration after the crystal",
+    "  --shape <s>       gaussian (default) or sech2: the pulse shape of "
+    "--duration",
+    "  --candidates <list>  more crystals (comma-separated) to rank with "
+    "--crystal for --duration: each",
+    "                    one's design, longest crystal and relative "
+    "efficiency there",
+    "With --duration: the longest crystal whose acceptance along each wave "
+    "pair supports that pulse.",
     "Noncollinear designs project the GVM as for noncollinear OPAs: pairs "
     "with the pump along the pump,",
     "signal-idler along the signal (zero at the broadband angle).",
@@ -57,8 +70,212 @@ triple(const dk_pulse_props *p, size_t offset)
 }
 
 typedef struct pulse_opts {
-    const char *duration, *waist;
+    const char *duration, *waist, *shape, *candidates;
 } pulse_opts;
+
+/* One candidate crystal of a ranking. */
+typedef struct candidate {
+    char name[64];
+    int ok;
+    char why[DK_ERROR_MSG_MAX];
+    char pol[4];
+    double theta_deg, phi_deg, deff, n[3], walkoff_mrad;
+    double lmax_mm;
+    int limiting;          /* the pair that sets lmax */
+    double merit;          /* (d_eff L_max)² / (n_s n_i n_p) */
+    unsigned range;
+    int qpm;
+    double period_um;
+} candidate;
+
+static int
+by_merit(const void *a, const void *b)
+{
+    const candidate *x = a, *y = b;
+    if (x->ok != y->ok)
+        return y->ok - x->ok;
+    return (y->merit > x->merit) - (y->merit < x->merit);
+}
+
+/* Rank the crystal of --crystal and the --candidates for pulses of
+ * @tau: each one's design (the same options), the longest crystal over
+ * every wave pair, and the low-conversion figure of merit there. */
+static int
+rank_candidates(const cli_common *cm, const cli_design_args *da,
+                const char *list, double tau, dk_pulse_shape shape,
+                int json, const char *const usage[])
+{
+    dk_db *db;
+    if (cli_load_db(&db))
+        return CLI_FAIL;
+    enum { MAXC = 24 };
+    candidate cand[MAXC];
+    int nc = 0, rc = CLI_FAIL;
+    char buf[1024];
+    snprintf(buf, sizeof buf, "%s,%s", cm->crystal, list);
+    for (char *sp = buf, *tok; (tok = strsep(&sp, ","));) {
+        if (!*tok)
+            continue;
+        if (nc == MAXC) {
+            rc = cli_usage_error(usage, "--candidates: at most %d crystals",
+                                 MAXC - 1);
+            goto done;
+        }
+        candidate *k = &cand[nc++];
+        memset(k, 0, sizeof *k);
+        snprintf(k->name, sizeof k->name, "%s", tok);
+        const dk_crystal *c = cli_find_crystal(db, tok);
+        if (!c) {
+            rc = CLI_USAGE;
+            goto done;
+        }
+        dk_design_request rq;
+        if ((rc = cli_design_request(da, ALLOWED, 1, c, tok, NULL, &rq,
+                                     usage)))
+            goto done;
+        dk_design *d = malloc(sizeof *d);
+        dk_error err = {0};
+        if (!d) {
+            rc = cli_error("out of memory");
+            goto done;
+        }
+        if (dk_design_resolve(&rq, d, &err)) {
+            snprintf(k->why, sizeof k->why, "%s", err.msg);
+            free(d);
+            continue;
+        }
+        snprintf(k->name, sizeof k->name, "%s", c->id);
+        k->qpm = d->scheme == DK_SCHEME_QPM;
+        k->period_um = d->period_um;
+        dk_pulse_props pp;
+        if (dk_pulse_props_of(d, &pp, &err)) {
+            snprintf(k->why, sizeof k->why, "%s", err.msg);
+            free(d);
+            continue;
+        }
+        k->deff = dk_design_deff(d);
+        snprintf(k->pol, sizeof k->pol, "%s", d->pol);
+        k->theta_deg = d->theta_rad / DEG;
+        k->phi_deg = d->phi_rad / DEG;
+        for (int j = 0; j < 3; j++) {
+            k->n[j] = pp.w[j].n;
+            k->walkoff_mrad = fmax(k->walkoff_mrad, pp.walkoff_rad[j] * 1e3);
+        }
+        k->range = dk_design_range_flags(d, &d->waves, d->temp_c);
+        k->lmax_mm = INFINITY;
+        k->limiting = -1;
+        int bad = 0;
+        for (int q = 0; q < DK_NPAIRS; q++) {
+            if (!dk_pair_applies(d, (dk_pair)q))
+                continue;
+            double L;
+            dk_status st = dk_design_longest_crystal(d, (dk_pair)q, tau,
+                                                     shape, &L, &err);
+            if (st == DK_ENOROOT)
+                L = 0;
+            else if (st) {
+                snprintf(k->why, sizeof k->why, "%s", err.msg);
+                bad = 1;
+                break;
+            }
+            if (L < k->lmax_mm)
+                k->lmax_mm = L, k->limiting = q;
+        }
+        if (!bad && isfinite(k->deff) && k->deff > 1e-6) {
+            k->ok = 1;
+            double L = isfinite(k->lmax_mm) ? k->lmax_mm : 1e4;
+            k->merit = pow(k->deff * L, 2) / (k->n[0] * k->n[1] * k->n[2]);
+        } else if (!bad) {
+            snprintf(k->why, sizeof k->why, "no usable d_eff");
+        }
+        free(d);
+    }
+    qsort(cand, (size_t)nc, sizeof cand[0], by_merit);
+    double best = cand[0].ok ? cand[0].merit : NAN;
+    cli_out out;
+    if (cli_out_open(&out))
+        goto done;
+    if (json) {
+        json_object *o = json_object_new_object(), *a = json_object_new_array();
+        json_object_object_add(o, "duration_fs", cli_json_num(tau));
+        json_object_object_add(o, "shape", json_object_new_string(
+                                               dk_pulse_shape_str(shape)));
+        for (int i = 0; i < nc; i++) {
+            candidate *k = &cand[i];
+            json_object *e = json_object_new_object();
+            json_object_object_add(e, "crystal", json_object_new_string(k->name));
+            if (!k->ok) {
+                json_object_object_add(e, "error", json_object_new_string(k->why));
+                json_object_array_add(a, e);
+                continue;
+            }
+            json_object_object_add(e, "pol", json_object_new_string(k->pol));
+            if (k->qpm)
+                json_object_object_add(e, "period_um",
+                                       cli_json_num(k->period_um));
+            else
+                json_object_object_add(e, "theta_deg",
+                                       cli_json_num(k->theta_deg));
+            json_object_object_add(e, "deff_pm_per_V", cli_json_num(k->deff));
+            json_object_object_add(e, "longest_crystal_mm",
+                                   cli_json_num(k->lmax_mm));
+            if (k->limiting >= 0)
+                json_object_object_add(
+                    e, "limiting_pair",
+                    json_object_new_string(dk_pair_str((dk_pair)k->limiting,
+                                                       0)));
+            json_object_object_add(e, "walkoff_mrad",
+                                   cli_json_num(k->walkoff_mrad));
+            json_object_object_add(e, "merit_relative",
+                                   cli_json_num(k->merit / best));
+            cli_flags_json(e, k->range, 0);
+            json_object_array_add(a, e);
+        }
+        json_object_object_add(o, "ranking", a);
+        cli_notes_to_json(o);
+        cli_out_json(&out, o);
+    } else {
+        fprintf(out.f, "candidates for %.4g fs %s pulses, ranked by (d_eff "
+                       "L_max)^2 / (n_s n_i n_p) at the longest crystal "
+                       "that supports them\n\n",
+                tau, dk_pulse_shape_str(shape));
+        fprintf(out.f, "  %-4s %-12s %-5s %16s %8s %10s %-14s %9s %8s\n",
+                "rank", "crystal", "modes", "theta deg / um", "d_eff",
+                "L_max mm", "limiting pair", "walk-off", "merit");
+        for (int i = 0; i < nc; i++) {
+            candidate *k = &cand[i];
+            if (!k->ok) {
+                fprintf(out.f, "  %-4s %-12s no design: %s\n", "-", k->name,
+                        k->why);
+                continue;
+            }
+            char lm[24], where[32];
+            if (isfinite(k->lmax_mm))
+                snprintf(lm, sizeof lm, "%.3g", k->lmax_mm);
+            else
+                snprintf(lm, sizeof lm, "any");
+            snprintf(where, sizeof where, k->qpm ? "%.3f um" : "%.3f",
+                     k->qpm ? k->period_um : k->theta_deg);
+            fprintf(out.f, "  %-4d %-12s %-5s %16s %8.3g %10s %-14s %9.3g "
+                           "%8.3f%s\n",
+                    i + 1, k->name, k->pol, where, k->deff, lm,
+                    k->limiting >= 0 ? dk_pair_str((dk_pair)k->limiting, 0)
+                                     : "-",
+                    k->walkoff_mrad, k->merit / best,
+                    k->range ? "  [extrapolated]" : "");
+        }
+        fprintf(out.f, "\n  L_max: the shortest over the wave pairs of the "
+                       "length whose acceptance equals the pulse's spectral "
+                       "FWHM; walk-off: the largest, mrad\n"
+                       "  merit: relative low-conversion efficiency at L_max "
+                       "(plane waves; walk-off, absorption and damage "
+                       "not included)\n");
+    }
+    rc = cli_out_commit(&out);
+done:
+    dk_db_free(db);
+    return rc;
+}
 
 static int
 pulse_option(int ch, const char *arg, void *ctx)
@@ -67,6 +284,8 @@ pulse_option(int ch, const char *arg, void *ctx)
     switch (ch) {
     case 'D': po->duration = arg; return 0;
     case 'W': po->waist = arg; return 0;
+    case 'S': po->shape = arg; return 0;
+    case 'R': po->candidates = arg; return 0;
     }
     return -1;
 }
@@ -79,11 +298,13 @@ cmd_pulse(int argc, char **argv)
         CLI_DESIGN_OPTIONS,
         {"duration", required_argument, NULL, 'D'},
         {"waist", required_argument, NULL, 'W'},
+        {"shape", required_argument, NULL, 'S'},
+        {"candidates", required_argument, NULL, 'R'},
         {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     cli_design_args da = {0};
     int rc;
-    pulse_opts po = {NULL, NULL};
+    pulse_opts po = {NULL, NULL, NULL, NULL};
     if ((rc = cli_parse_options(argc, argv, opts, pulse_usage, &cm, &da, NULL,
                                 pulse_option, &po, NULL, NULL)))
         return rc == CLI_HELP ? 0 : rc;
@@ -98,6 +319,21 @@ cmd_pulse(int argc, char **argv)
     if ((dur_s && dk_parse_duration(dur_s, &tau, &err)) ||
         (waist_s && dk_parse_length(waist_s, &waist_mm, &err)))
         return cli_usage_error(pulse_usage, "%s", err.msg);
+    dk_pulse_shape shape = DK_SHAPE_GAUSSIAN;
+    if (po.shape && !strcmp(po.shape, "sech2"))
+        shape = DK_SHAPE_SECH2;
+    else if (po.shape && strcmp(po.shape, "gaussian"))
+        return cli_usage_error(pulse_usage, "--shape '%s' must be gaussian "
+                                            "or sech2", po.shape);
+    if (po.shape && !dur_s)
+        return cli_usage_error(pulse_usage, "--shape describes --duration; "
+                                            "give --duration too");
+    if (po.candidates && !dur_s)
+        return cli_usage_error(pulse_usage, "--candidates ranks crystals for "
+                                            "a pulse: give --duration too");
+    if (po.candidates)
+        return rank_candidates(&cm, &da, po.candidates, tau, shape, cm.json,
+                               pulse_usage);
 
     dk_db *db;
     dk_design *dp;
@@ -113,6 +349,39 @@ cmd_pulse(int argc, char **argv)
     if (dk_pulse_props_of(&d, &pp, &err)) {
         cli_error("%s", err.msg);
         goto done;
+    }
+    /* Bandwidth as time: pair acceptances at the length, the longest
+     * crystal for the pulse, each wave after the crystal. */
+    dk_acceptance pacc[DK_NPAIRS];
+    int have_acc[DK_NPAIRS] = {0};
+    double lmax[DK_NPAIRS];
+    int have_lmax[DK_NPAIRS] = {0};
+    dk_dispersed disp[3];
+    int have_disp[3] = {0};
+    for (int k = 0; k < DK_NPAIRS; k++) {
+        if (!dk_pair_applies(&d, (dk_pair)k))
+            continue;
+        if (isfinite(len_mm) &&
+            dk_design_pair_acceptance(&d, (dk_pair)k, &pacc[k], NULL,
+                                      &err) == DK_OK)
+            have_acc[k] = 1;
+        if (isfinite(tau)) {
+            dk_status st = dk_design_longest_crystal(&d, (dk_pair)k, tau,
+                                                     shape, &lmax[k], &err);
+            if (st == DK_OK)
+                have_lmax[k] = 1;
+            else if (st == DK_ENOROOT)
+                have_lmax[k] = 2, lmax[k] = 0;
+        }
+    }
+    for (int k = 0; isfinite(tau) && isfinite(len_mm) && k < 3; k++) {
+        if (d.shg && k == 1)
+            continue;
+        if (dk_design_dispersed(&d, k, tau, shape, len_mm, &disp[k],
+                                &err) == DK_OK)
+            have_disp[k] = 1;
+        else
+            cli_warn("%s after the crystal: %s", wave_names[k], err.msg);
     }
     cli_out out;
     if (cli_out_open(&out))
@@ -190,6 +459,49 @@ cmd_pulse(int argc, char **argv)
             json_object_object_add(o, "aperture_length_mm", la);
         } else
             json_object_put(la);
+        json_object *pairs = json_object_new_array();
+        for (int k = 0; k < DK_NPAIRS; k++) {
+            if (!have_acc[k] && !have_lmax[k])
+                continue;
+            json_object *e = json_object_new_object();
+            json_object_object_add(
+                e, "pair", json_object_new_string(dk_pair_str((dk_pair)k,
+                                                              d.shg)));
+            if (have_acc[k]) {
+                json_object_object_add(e, "acceptance_THz",
+                                       cli_json_num(pacc[k].fwhm));
+                json_object_object_add(e, "first_order_THz",
+                                       cli_json_num(pacc[k].linear_fwhm));
+                json_object_object_add(
+                    e, "transform_limit_fs",
+                    cli_json_num(dk_transform_limit_fs(pacc[k].fwhm, shape)));
+                if (pacc[k].open_lo || pacc[k].open_hi)
+                    json_object_object_add(e, "open",
+                                           json_object_new_boolean(1));
+            }
+            if (have_lmax[k])
+                json_object_object_add(e, "longest_crystal_mm",
+                                       cli_json_num(lmax[k]));
+            json_object_array_add(pairs, e);
+        }
+        json_object_object_add(o, "pairs", pairs);
+        if (isfinite(tau))
+            json_object_object_add(o, "shape",
+                                   json_object_new_string(
+                                       dk_pulse_shape_str(shape)));
+        json_object *dj = json_object_new_object();
+        for (int k = 0; k < 3; k++) {
+            if (!have_disp[k])
+                continue;
+            json_object *e = json_object_new_object();
+            json_object_object_add(e, "gdd_fs2", cli_json_num(disp[k].gdd_fs2));
+            json_object_object_add(e, "fwhm_fs",
+                                   cli_json_num(disp[k].fwhm_out_fs));
+            json_object_object_add(e, "gdd_only_fwhm_fs",
+                                   cli_json_num(disp[k].gdd_only_fs));
+            json_object_object_add(dj, wave_names[k], e);
+        }
+        json_object_object_add(o, "after_crystal", dj);
         cli_flags_json(o, dk_design_range_flags(&d, &d.waves, d.temp_c),
                        d.shg);
         cli_notes_to_json(o);
@@ -256,6 +568,84 @@ cmd_pulse(int argc, char **argv)
             fprintf(out.f, "  noncollinear: pairs with the pump projected on "
                            "the pump direction, signal-idler on the signal "
                            "direction\n");
+        int any = 0;
+        for (int k = 0; k < DK_NPAIRS; k++)
+            any |= have_acc[k] || have_lmax[k];
+        if (any) {
+            fprintf(out.f, "\n  bandwidth as time");
+            if (isfinite(tau))
+                fprintf(out.f, " (%.4g fs %s, transform-limited: spectral "
+                               "FWHM %.4g THz)",
+                        tau, dk_pulse_shape_str(shape),
+                        dk_pulse_bandwidth_thz(tau, shape));
+            fprintf(out.f, "\n  %-22s", "pair (wave held)");
+            if (isfinite(len_mm))
+                fprintf(out.f, " %16s %16s", "acceptance THz",
+                        "supports fs");
+            if (isfinite(tau))
+                fprintf(out.f, " %20s", "longest crystal mm");
+            fputc('\n', out.f);
+            static const char *const held[3] = {"pump", "signal", "idler"};
+            for (int k = 0; k < DK_NPAIRS; k++) {
+                if (!have_acc[k] && !have_lmax[k])
+                    continue;
+                char name[48];
+                snprintf(name, sizeof name, "%s (%s)",
+                         dk_pair_str((dk_pair)k, d.shg),
+                         d.shg ? "-" : held[k]);
+                fprintf(out.f, "  %-22s", name);
+                if (isfinite(len_mm)) {
+                    if (have_acc[k]) {
+                        int open = pacc[k].open_lo || pacc[k].open_hi;
+                        char a[32], b[32];
+                        snprintf(a, sizeof a, "%s%.4g", open ? "> " : "",
+                                 pacc[k].fwhm);
+                        snprintf(b, sizeof b, "%s%.4g", open ? "< " : "",
+                                 dk_transform_limit_fs(pacc[k].fwhm, shape));
+                        fprintf(out.f, " %16s %16s", a, b);
+                    } else {
+                        fprintf(out.f, " %16s %16s", "-", "-");
+                    }
+                }
+                if (have_lmax[k] == 1 && isfinite(lmax[k]))
+                    fprintf(out.f, " %20.4g", lmax[k]);
+                else if (have_lmax[k] == 1)
+                    fprintf(out.f, " %20s", "any (> 10 m)");
+                if (have_lmax[k] == 2)
+                    fprintf(out.f, " %20s", "< 0.001");
+                fputc('\n', out.f);
+            }
+            fprintf(out.f, "  acceptance: FWHM of sinc^2 in the frequency of "
+                           "the moving waves (exact); supports: the "
+                           "transform-limited %s pulse with that spectral "
+                           "FWHM\n",
+                    dk_pulse_shape_str(shape));
+            if (isfinite(tau))
+                fprintf(out.f, "  longest crystal: where the acceptance "
+                               "equals the pulse's spectral FWHM (about "
+                               "twice tau/|GVM| where GVM rules)\n");
+        }
+        int anyd = have_disp[0] || have_disp[1] || have_disp[2];
+        if (anyd) {
+            fprintf(out.f, "\n  a transform-limited %.4g fs %s pulse after "
+                           "%.4g mm in its own mode (exact k(w)):\n"
+                           "  %-7s %12s %14s %18s\n",
+                    tau, dk_pulse_shape_str(shape), len_mm, "wave",
+                    "GDD fs2", "duration fs", "GDD alone fs");
+            static const char *const shg_short[3] = {"fund.", "", "harm."};
+            for (int k = 0; k < 3; k++) {
+                if (!have_disp[k])
+                    continue;
+                char g[32];
+                if (isfinite(disp[k].gdd_only_fs))
+                    snprintf(g, sizeof g, "%.4g", disp[k].gdd_only_fs);
+                else
+                    snprintf(g, sizeof g, "-");
+                fprintf(out.f, "  %-7s %12.4g %14.4g %18s\n",
+                        d.shg ? shg_short[k] : wave_names[k], disp[k].gdd_fs2,
+                        disp[k].fwhm_out_fs, g);
+            }
+        }
     }
     rc = cli_out_commit(&out);
 #undef d

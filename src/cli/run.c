@@ -68,7 +68,8 @@ static const char *const run_usage[] = {
 /* The commands a design file may use. */
 static const char *const allowed[] = {"angle",  "chip",  "crystals",
                                       "gain",   "index", "period",
-                                      "pulse",  "sweep", "tolerance"};
+                                      "pulse",  "simulate", "sweep",
+                                      "tolerance"};
 
 typedef struct step {
     int line;

@@ -12,6 +12,7 @@
 #include "options.h"
 #include "commands.h"
 #include "design_args.h"
+#include "deltak/bandwidth.h"
 #include "deltak/plot.h"
 #include "deltak/tolerance.h"
 #include "deltak/constants.h"
@@ -208,6 +209,8 @@ cmd_tolerance(int argc, char **argv)
         goto done;
     }
     dk_acceptance acc[NITEMS];
+    dk_acceptance_lobes lobes[NITEMS];
+    double dom[NITEMS][2];
     int have[NITEMS] = {0};
     int no_tdep = !dk_set_has_temperature(d.set);
     for (size_t i = 0; i < NITEMS; i++) {
@@ -218,7 +221,8 @@ cmd_tolerance(int argc, char **argv)
             have[i] = 2;
             continue;
         }
-        if (dk_design_tolerance(&d, items[i].p, &acc[i], &err)) {
+        if (dk_design_acceptance_lobes(&d, items[i].p, &acc[i], &lobes[i],
+                                       dom[i], &err)) {
             cli_error("%s", err.msg);
             cli_out_discard(&out);
             goto done;
@@ -245,7 +249,7 @@ cmd_tolerance(int argc, char **argv)
     double nin = dk_design_input_index(&d);
     /* Idler width from the signal edges (energy conservation). */
     double idl_nm = NAN, sig_cm = NAN;
-    if (have[1] && acc[1].bounded && !d.shg) {
+    if (have[1] && isfinite(acc[1].fwhm) && !d.shg) {
         double il = dk_third_wave_um(d.waves.pump_um, acc[1].lo);
         double ih = dk_third_wave_um(d.waves.pump_um, acc[1].hi);
         idl_nm = fabs(il - ih) * 1e3;
@@ -254,8 +258,17 @@ cmd_tolerance(int argc, char **argv)
         cli_warn("no temperature acceptance: data set '%s' has no "
                  "temperature dependence (pick another with --dispersion)",
                  set->name);
-    if (have[1] && acc[1].bounded)
+    if (have[1] && isfinite(acc[1].fwhm))
         sig_cm = 1e4 * fabs(1 / acc[1].lo - 1 / acc[1].hi);
+    /* The spectral widths in frequency and the pulses they support. */
+    double thz[NITEMS];
+    for (size_t i = 0; i < NITEMS; i++) {
+        thz[i] = NAN;
+        if (have[i] == 1 && isfinite(acc[i].fwhm) &&
+            (items[i].p == DK_TOL_SIGNAL || items[i].p == DK_TOL_PUMP))
+            thz[i] = DK_C_UM_PER_FS * 1e3 *
+                     fabs(1 / acc[i].lo - 1 / acc[i].hi);
+    }
     if (cm.json) {
         json_object *o = json_object_new_object();
         json_object_object_add(o, "crystal", json_object_new_string(c->id));
@@ -284,7 +297,8 @@ cmd_tolerance(int argc, char **argv)
         for (size_t i = 0; i < NITEMS; i++) {
             if (have[i] != 1)
                 continue;
-            double v = acc[i].bounded ? acc[i].fwhm * items[i].scale : NAN;
+            double v = isfinite(acc[i].fwhm) ? acc[i].fwhm * items[i].scale
+                                             : NAN;
             double l = acc[i].linear_fwhm * items[i].scale;
             json_object_object_add(lin, items[i].key, cli_json_num(l));
             switch (items[i].p) {
@@ -319,11 +333,68 @@ cmd_tolerance(int argc, char **argv)
         json_object *ext = json_object_new_object();
         for (size_t i = 0; i < NITEMS; i++)
             if (have[i] == 1 && !strcmp(items[i].unit, "mrad") &&
-                acc[i].bounded)
+                isfinite(acc[i].fwhm))
                 json_object_object_add(ext, items[i].key,
                                        cli_json_num(acc[i].fwhm * 1e3 * nin));
         json_object_object_add(o, "external_angular_fwhm_mrad", ext);
         json_object_object_add(o, "linear_estimates", lin);
+        json_object *fq = json_object_new_object(),
+                    *tg = json_object_new_object(),
+                    *ts = json_object_new_object(),
+                    *open = json_object_new_object(),
+                    *outer = json_object_new_object(),
+                    *lob = json_object_new_object();
+        for (size_t i = 0; i < NITEMS; i++) {
+            if (have[i] != 1)
+                continue;
+            const char *key = d.shg && items[i].p == DK_TOL_SIGNAL
+                                  ? "fundamental" : items[i].key;
+            if (isfinite(thz[i])) {
+                json_object_object_add(fq, key, cli_json_num(thz[i]));
+                json_object_object_add(
+                    tg, key,
+                    cli_json_num(dk_transform_limit_fs(thz[i],
+                                                       DK_SHAPE_GAUSSIAN)));
+                json_object_object_add(
+                    ts, key,
+                    cli_json_num(dk_transform_limit_fs(thz[i],
+                                                       DK_SHAPE_SECH2)));
+            }
+            if (acc[i].open_lo || acc[i].open_hi) {
+                json_object *sides = json_object_new_array();
+                if (acc[i].open_lo)
+                    json_object_array_add(sides,
+                                          json_object_new_string("low"));
+                if (acc[i].open_hi)
+                    json_object_array_add(sides,
+                                          json_object_new_string("high"));
+                json_object_object_add(open, key, sides);
+            }
+            const dk_acceptance_lobes *lb = &lobes[i];
+            if (lb->n > 0) {
+                json_object_object_add(outer, key,
+                                       cli_json_num(lb->outer_fwhm *
+                                                    items[i].scale));
+                json_object *arr = json_object_new_array();
+                for (int k = 0; k < lb->n; k++) {
+                    json_object *pr = json_object_new_array();
+                    json_object_array_add(pr, cli_json_num(lb->lo[k] *
+                                                           items[i].scale));
+                    json_object_array_add(pr, cli_json_num(lb->hi[k] *
+                                                           items[i].scale));
+                    json_object_array_add(arr, pr);
+                }
+                json_object_object_add(lob, key, arr);
+            }
+        }
+        json_object_object_add(o, "spectral_fwhm_THz", fq);
+        json_object *tl = json_object_new_object();
+        json_object_object_add(tl, "gaussian", tg);
+        json_object_object_add(tl, "sech2", ts);
+        json_object_object_add(o, "transform_limit_fs", tl);
+        json_object_object_add(o, "open_sides", open);
+        json_object_object_add(o, "outer_fwhm", outer);
+        json_object_object_add(o, "half_maximum_intervals", lob);
         cli_flags_json(o, dk_design_range_flags(&d, &d.waves, d.temp_c),
                        d.shg);
         cli_notes_to_json(o);
@@ -333,27 +404,35 @@ cmd_tolerance(int argc, char **argv)
         unsigned rf = dk_design_range_flags(&d, &d.waves, d.temp_c);
         cli_csv_flags(rf, d.shg, flags, sizeof flags);
         fprintf(out.f, "parameter,unit,fwhm,first_order_fwhm,per_length,"
-                       "per_length_unit,flags\n");
+                       "per_length_unit,fwhm_THz,transform_limit_gaussian_fs,"
+                       "transform_limit_sech2_fs,outer_fwhm,flags\n");
         for (size_t i = 0; i < NITEMS; i++) {
             if (have[i] == 2)
-                fprintf(out.f, "%s,%s,,,,,%s%sno-temperature-dependence\n",
+                fprintf(out.f, "%s,%s,,,,,,,,,%s%sno-temperature-dependence\n",
                         items[i].key, items[i].unit, flags,
                         flags[0] ? ";" : "");
             if (have[i] != 1)
                 continue;
             int root;
             double pl = per_length(&acc[i], lcm, &root);
-            if (!acc[i].bounded) {
-                fprintf(out.f, "%s,%s,,%.8g,,,%s%sunbounded\n",
-                        items[i].key, items[i].unit,
-                        acc[i].linear_fwhm * items[i].scale, flags,
-                        flags[0] ? ";" : "");
-                continue;
-            }
-            fprintf(out.f, "%s,%s,%.8g,%.8g,%.8g,%s*%s,%s\n", items[i].key,
-                    items[i].unit, acc[i].fwhm * items[i].scale,
+            char extra[160] = "", fq[120] = "";
+            if (acc[i].open_lo || acc[i].open_hi)
+                snprintf(extra, sizeof extra, "%s%s%s", flags[0] ? ";" : "",
+                         acc[i].open_lo ? "open-low" : "",
+                         acc[i].open_lo && acc[i].open_hi ? ";open-high"
+                         : acc[i].open_hi                 ? "open-high"
+                                                          : "");
+            if (isfinite(thz[i]))
+                snprintf(fq, sizeof fq, "%.8g,%.8g,%.8g", thz[i],
+                         dk_transform_limit_fs(thz[i], DK_SHAPE_GAUSSIAN),
+                         dk_transform_limit_fs(thz[i], DK_SHAPE_SECH2));
+            else
+                snprintf(fq, sizeof fq, ",,");
+            fprintf(out.f, "%s,%s,%.8g,%.8g,%.8g,%s*%s,%s,%.8g,%s%s\n",
+                    items[i].key, items[i].unit, acc[i].fwhm * items[i].scale,
                     acc[i].linear_fwhm * items[i].scale, pl * items[i].scale,
-                    items[i].unit, root ? "cm^0.5" : "cm", flags);
+                    items[i].unit, root ? "cm^0.5" : "cm", fq,
+                    lobes[i].outer_fwhm * items[i].scale, flags, extra);
         }
     } else {
         fprintf(out.f, "%s (data set %s), %s design, %.4g mm long, ", c->id,
@@ -390,15 +469,12 @@ cmd_tolerance(int argc, char **argv)
                         "n/a (set has no T dependence)");
                 continue;
             }
-            if (!acc[i].bounded) {
-                fprintf(out.f, "  %-26s %14s\n", name, "beyond search");
-                continue;
-            }
             int root;
             double pl = per_length(&acc[i], lcm, &root);
-            char ex[32], li[32], pls[40];
-            snprintf(ex, sizeof ex, "%.4g %s", acc[i].fwhm * items[i].scale,
-                     items[i].unit);
+            char ex[40], li[32], pls[40];
+            snprintf(ex, sizeof ex, "%s%.4g %s",
+                     acc[i].open_lo || acc[i].open_hi ? "> " : "",
+                     acc[i].fwhm * items[i].scale, items[i].unit);
             if (isfinite(acc[i].linear_fwhm))
                 snprintf(li, sizeof li, "%.4g %s",
                          acc[i].linear_fwhm * items[i].scale, items[i].unit);
@@ -406,7 +482,74 @@ cmd_tolerance(int argc, char **argv)
                 snprintf(li, sizeof li, "(noncritical)");
             snprintf(pls, sizeof pls, "%.4g %s*%s", pl * items[i].scale,
                      items[i].unit, root ? "cm^1/2" : "cm");
-            fprintf(out.f, "  %-26s %14s %16s %22s\n", name, ex, li, pls);
+            fprintf(out.f, "  %-26s %14s %16s %22s\n", name, ex, li,
+                    acc[i].open_lo || acc[i].open_hi ? "" : pls);
+        }
+        /* What a single number does not say: open sides, more lobes. */
+        for (size_t i = 0; i < NITEMS; i++) {
+            if (have[i] != 1)
+                continue;
+            const char *name = d.shg && items[i].p == DK_TOL_SIGNAL
+                                   ? "fundamental" : items[i].key;
+            double sc = items[i].scale;
+            const char *u = items[i].unit;
+            if (acc[i].open_lo || acc[i].open_hi)
+                fprintf(out.f, "\n  %s: sinc^2 stays above 1/2 %s%s%s of "
+                               "the range searched (%.6g to %.6g %s%s)",
+                        name, acc[i].open_lo ? "to the low end" : "",
+                        acc[i].open_lo && acc[i].open_hi ? " and " : "",
+                        acc[i].open_hi ? "to the high end" : "",
+                        dom[i][0] * sc, dom[i][1] * sc, u,
+                        items[i].p == DK_TOL_SIGNAL ||
+                                items[i].p == DK_TOL_PUMP
+                            ? ", every wave inside the transparency"
+                            : "");
+            const dk_acceptance_lobes *lb = &lobes[i];
+            if (lb->central >= 0 && !lb->contiguous) {
+                fprintf(out.f, "\n  %s: double-humped band, sinc^2 >= 1/2 "
+                               "on",
+                        name);
+                for (int k = lb->group_first; k <= lb->group_last; k++)
+                    fprintf(out.f, "%s %.6g-%.6g", k > lb->group_first ? ","
+                                                                       : "",
+                            lb->lo[k] * sc, lb->hi[k] * sc);
+                fprintf(out.f, " %s; outer FWHM %.4g %s", u,
+                        lb->outer_fwhm * sc, u);
+            }
+            int others = 0;
+            for (int k = 0; k < lb->n; k++) {
+                if (k >= lb->group_first && k <= lb->group_last)
+                    continue;
+                fprintf(out.f, "%s %.6g-%.6g",
+                        others++ ? ","
+                                 : (fprintf(out.f, "\n  %s: phase-matched "
+                                                   "again (not counted in "
+                                                   "the width) at",
+                                            name),
+                                    ""),
+                        lb->lo[k] * sc, lb->hi[k] * sc);
+            }
+            if (others)
+                fprintf(out.f, " %s", u);
+        }
+        int any_thz = 0;
+        for (size_t i = 0; i < NITEMS; i++)
+            any_thz |= isfinite(thz[i]);
+        if (any_thz)
+            fprintf(out.f, "\n\n  %-26s %12s %26s\n", "spectral width",
+                    "THz", "transform limit: Gaussian, sech2");
+        for (size_t i = 0; i < NITEMS; i++) {
+            if (!isfinite(thz[i]))
+                continue;
+            char tl[64];
+            snprintf(tl, sizeof tl, "%s%.4g fs, %.4g fs",
+                     acc[i].open_lo || acc[i].open_hi ? "< " : "",
+                     dk_transform_limit_fs(thz[i], DK_SHAPE_GAUSSIAN),
+                     dk_transform_limit_fs(thz[i], DK_SHAPE_SECH2));
+            fprintf(out.f, "  %-26s %12.4g %26s\n",
+                    d.shg && items[i].p == DK_TOL_SIGNAL ? "fundamental"
+                                                          : items[i].name,
+                    thz[i], tl);
         }
         if (isfinite(sig_cm))
             fprintf(out.f, "\n  %s width %.4g cm-1", d.shg ? "fundamental"
@@ -422,7 +565,10 @@ cmd_tolerance(int argc, char **argv)
                         items[i].key, acc[i].fwhm * 1e3 * nin, nin);
         fprintf(out.f, "\n\n  exact: where sinc^2(dk L/2) falls to 1/2; "
                        "first-order: 2x2.783/(L |d dk/dx|); per length: "
-                       "x L (critical) or x sqrt(L) (noncritical)\n");
+                       "x L (critical) or x sqrt(L) (noncritical)\n"
+                       "  transform limit: the duration of a pulse whose "
+                       "intensity spectrum has this FWHM (Gaussian "
+                       "0.441/dnu, sech2 0.315/dnu)\n");
     }
     rc = cli_out_commit(&out);
 #undef d

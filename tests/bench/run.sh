@@ -30,3 +30,10 @@ run angle --crystal KTP --fundamental 1064nm
 run sweep --crystal MgO:LN --pump 1064nm --vary temp=20:200:121 --solve wavelengths --family period=31.8um,32.0um,32.2um --csv
 run sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:151 --map temp=20:200:121 --length 20mm --csv
 run gain --crystal BBO --fundamental 1064nm --type I --length 10mm --power 1W
+# Bandwidth as time, broadband spectra and the pulse simulator through the
+# command line (the engine alone: bench_simulate above).
+run pulse --crystal GaSe --candidates AgGaS2,LGS,LiIO3,BGS --pump 1.65um --signal 2.74um --type I --duration 65fs
+run tolerance --crystal LiIO3 --pump 1030nm --signal 1.6um --type I --length 1mm
+run simulate --crystal GaSe --pump 1.65um --signal 2.74um --type I --length 0.5mm --pump-in fluence=0.3mJ/cm2,fwhm=60fs --signal-in fluence=0.1mJ/cm2,fwhm=70fs --model low-conversion
+run simulate --crystal GaSe --pump 1.65um --signal 2.74um --type I --length 0.5mm --pump-in fluence=0.3mJ/cm2,fwhm=60fs --signal-in fluence=0.1mJ/cm2,fwhm=70fs
+run simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in peak=60GW/cm2,fwhm=100fs --signal-in peak=0.01GW/cm2,fwhm=40fs

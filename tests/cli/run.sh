@@ -130,6 +130,72 @@ expect gain-no-intensity 2 'intensity' -- gain --crystal BBO --pump 800nm --sign
 expect gain-bad-intensity 2 'intensity' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 5
 expect gain-damage 0 'damage threshold' -- gain --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 40 --length 10mm --intensity 2GW/cm2
 json_has gain-json "deff_pm_per_V gamma_per_mm gain gain_fwhm.signal_nm" -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2 --json
+
+# Bandwidth as time (issue 15): broad acceptances get a width, THz and
+# transform limits beside nm; the gain estimate of the regime, labelled.
+expect tol-liio3-broad 0 'signal, pump fixed +[0-9.]+ nm' -- tolerance --crystal LiIO3 --pump 1030nm --signal 1.6um --type I --length 1mm
+"$DK" tolerance --crystal LiIO3 --pump 1030nm --signal 1.6um --type I --length 1mm >"$tmp/out" 2>&1
+if ! grep -q 'beyond search' "$tmp/out"; then pass=$((pass + 1)); else
+    fail=$((fail + 1)); echo "not ok: tol-never-beyond-search"; fi
+expect tol-thz 0 'transform limit: Gaussian, sech2' -- tolerance --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm
+expect tol-other-lobe 0 'phase-matched again' -- tolerance --crystal LiIO3 --pump 800nm --signal 1300nm --type I --length 1mm
+json_has tol-json-thz "spectral_fwhm_THz.signal transform_limit_fs.gaussian.signal transform_limit_fs.sech2.pump outer_fwhm.signal" -- tolerance --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --json
+expect tol-csv-thz 0 '^parameter,unit,fwhm,first_order_fwhm,per_length,per_length_unit,fwhm_THz' -- tolerance --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --csv
+expect gain-low-regime 0 'low-gain estimate \(Gamma L <= 2.794\)' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 1mm --intensity 1GW/cm2
+expect gain-high-regime 0 'high-gain estimate \(Gamma L > 2.794\)' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2
+json_has gain-json-regime "gain_fwhm.regime gain_fwhm.estimate_THz gain_fwhm.low_gain_estimate_THz gain_fwhm.transform_limit_gaussian_fs" -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 1mm --intensity 1GW/cm2 --json
+expect pulse-longest 0 'signal-idler \(pump\) +[0-9.]+ +[0-9.]+ +[0-9.]+' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
+expect pulse-after 0 'pulse after 2 mm in its own mode' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
+expect pulse-bad-shape 2 "--shape 'square' must be gaussian or sech2" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --shape square
+expect pulse-rank 0 '^  1 +LiGaS2' -- pulse --crystal GaSe --candidates AgGaS2,LGS --pump 1.65um --signal 2.74um --type I --duration 65fs
+expect pulse-rank-needs-duration 2 '--candidates ranks crystals for a pulse' -- pulse --crystal GaSe --candidates AgGaS2 --pump 1.65um --signal 2.74um --type I
+expect pulse-rank-unknown 2 "unknown crystal 'unobtainium'" -- pulse --crystal GaSe --candidates unobtainium --pump 1.65um --signal 2.74um --type I --duration 65fs
+json_has pulse-rank-json "ranking.0.crystal ranking.0.longest_crystal_mm ranking.0.merit_relative" -- pulse --crystal GaSe --candidates AgGaS2 --pump 1.65um --signal 2.74um --type I --duration 65fs --json
+json_has pulse-json-pairs "pairs.0.longest_crystal_mm pairs.0.acceptance_THz after_crystal.pump.fwhm_fs" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm --json
+
+# deltak simulate: the pulse simulator over a design.
+SIMOPA="--crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in energy=40uJ,fwhm=100fs --signal-in energy=20nJ,fwhm=60fs --beam-radius 1.5mm"
+expect sim-opa 0 'convergence: halving the step changed the output energies by .*converged' -- simulate $SIMOPA
+expect sim-manley-rowe 0 'Manley-Rowe: photon-number invariants kept to' -- simulate $SIMOPA
+expect sim-safety 0 'laser safety officer' -- simulate $SIMOPA
+expect sim-walkoff 0 'spatial walk-off .* is not simulated' -- simulate $SIMOPA
+json_has sim-json "waves.0.energy_out_J waves.2.fwhm_out_fs waves.1.transform_limit_out_fs convergence.change manley_rowe_defect along_z.z_mm grid.samples" -- simulate $SIMOPA --json
+expect sim-csv-energy 0 '^z_mm,signal_fluence_J_per_cm2,signal_energy_J' -- simulate $SIMOPA --csv
+expect sim-csv-spectra 0 '^signal_frequency_THz,signal_wavelength_um' -- simulate $SIMOPA --csv --table spectra
+expect sim-csv-pulses 0 '^time_fs,signal_in_GW_per_cm2' -- simulate $SIMOPA --csv --table pulses
+expect sim-qpm-shg 0 'bulk d of the domains' -- simulate --crystal MgO:LN --fundamental 1064nm --length 1mm --fundamental-in peak=1GW/cm2,fwhm=200fs
+expect sim-no-input 2 'give the input pulses' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm
+expect sim-no-beam 2 'give the --beam-radius too' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in energy=1uJ,fwhm=50fs
+expect sim-bad-key 2 "unknown key 'colour'" -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in peak=1GW/cm2,fwhm=50fs,colour=red
+expect sim-two-amounts 2 'exactly one of energy=, fluence= or peak=' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in peak=1GW/cm2,fluence=1mJ/cm2,fwhm=50fs
+expect sim-no-duration 2 'give the duration fwhm=' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in peak=1GW/cm2
+expect sim-bare-energy 2 'not a energy with a unit|is not an energy' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in energy=5,fwhm=50fs --beam-radius 1mm
+expect sim-shg-wrong-input 2 'takes --fundamental-in' -- simulate --crystal BBO --fundamental 1030nm --type I --length 1mm --pump-in peak=1GW/cm2,fwhm=50fs
+expect sim-bad-table 2 "--table 'z' must be" -- simulate $SIMOPA --csv --table z
+expect sim-no-length 2 '--length is required' -- simulate --crystal BBO --fundamental 1030nm --type I --fundamental-in peak=1GW/cm2,fwhm=50fs
+mkdir -p "$tmp/sim"
+python3 -c "
+import math
+print('# a smooth seed spectrum, 60 nm wide')
+print('wavelength_nm,intensity')
+for k in range(121):
+    x = 1180 + 2 * k
+    print('%g,%.6g' % (x, math.exp(-4 * math.log(2) * ((x - 1300) / 60) ** 2)))
+" > "$tmp/sim/seed.csv"
+expect sim-spectrum-file 0 'converged' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 1mm --pump-in peak=20GW/cm2,fwhm=100fs --signal-in peak=0.01GW/cm2,spectrum=$tmp/sim/seed.csv
+printf 'wavelength_nm,intensity\n1250,0.1\n1300,x\n' > "$tmp/sim/bad.csv"
+expect sim-spectrum-bad 1 "bad.csv' line 3" -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 1mm --pump-in peak=20GW/cm2,fwhm=100fs --signal-in peak=0.01GW/cm2,spectrum=$tmp/sim/bad.csv
+if "$DK" simulate $SIMOPA --plot "$tmp/sim/sim.svg" --figure pulses >/dev/null 2>&1 &&
+   python3 -c "import xml.dom.minidom; xml.dom.minidom.parse('$tmp/sim/sim.svg')" 2>/dev/null; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: sim-svg-valid"; fi
+MIX="--crystal GaSe --pump 1.65um --signal 2.74um --type I --length 0.5mm --pump-in fluence=0.01mJ/cm2,fwhm=60fs --signal-in fluence=0.01mJ/cm2,fwhm=70fs"
+expect sim-low-conversion 0 'low-conversion model: difference-frequency of the inputs into the idler' -- simulate $MIX --model low-conversion
+expect sim-low-conversion-csv 0 '^frequency_THz,wavelength_um,spectrum_J_per_cm2_THz,phase_rad,pm_modulus,pm_phase_rad' -- simulate $MIX --model low-conversion --csv --table spectra
+json_has sim-low-conversion-json "generated spectral_fwhm_THz transform_limit_fs photon_fraction fluence_J_per_cm2" -- simulate $MIX --model low-conversion --json
+expect sim-opa-gain 0 'largest gain over the seed' -- simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in peak=20GW/cm2,shape=cw --signal-in peak=1e-6GW/cm2,fwhm=100fs --model opa-gain
+expect sim-bad-model 2 "--model 'fast' must be" -- simulate $MIX --model fast
+expect sim-model-inputs 1 'takes the pump' -- simulate --crystal GaSe --pump 1.65um --signal 2.74um --type I --length 0.5mm --pump-in fluence=0.01mJ/cm2,fwhm=60fs --model low-conversion
+no_stdout sim-fail-quiet simulate --crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-in energy=1uJ,fwhm=50fs
 expect sweep-csv 0 '^period_um,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --csv
 expect sweep-family 0 '^period_um,temp_C,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --family temp=30,100 --csv
 expect sweep-map 0 '^pump_um,temp_C,sinc2' -- sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:5 --map temp=20:200:5 --length 20mm --csv
@@ -212,7 +278,7 @@ if "$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve
    head -c 5 "$tmp/t.pdf" | grep -q '%PDF'; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: sweep-pdf-valid"; fi
 "$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve idler --temp 40 --plot "$tmp/nodir/t.png" >/dev/null 2>&1
-if [ $? -eq 1 ] && [ -z "$(ls "$tmp" | grep -v -e db -e out -e err -e '^t\.')" ]; then
+if [ $? -eq 1 ] && [ -z "$(ls "$tmp" | grep -v -e db -e out -e err -e '^t\.' -e '^sim$')" ]; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: plot-unwritable"; ls "$tmp"; fi
 
 # Design files: a report only when every step succeeds; paths are taken
@@ -276,6 +342,17 @@ if ! pgrep -f "$tmp/slow/slow.svg" >/dev/null && [ -z "$(ls -A "$tmp/slow" | gre
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-killed-cleanly"; ls -A "$tmp/slow"; pkill -f "$tmp/slow/slow.svg"; fi
 expect run-check 0 '2 steps, checked; nothing run' -- run "$tmp/ok.dk" --check
 
+# The few-cycle scenarios of examples/ carried out end to end (a copy, so
+# that their out/ folder lands in the temporary folder).
+mkdir -p "$tmp/ex"
+for ex in harrowgate-midir-dfg kestrel-bbo-opa; do
+    cp "examples/$ex.dk" "$tmp/ex/"
+    expect "example-$ex" 0 "ran [0-9]+ steps" -- run "$tmp/ex/$ex.dk"
+    if grep -q 'converged' "$tmp/ex/out/$ex.md" && grep -q 'longest crystal' "$tmp/ex/out/$ex.md" &&
+       grep -q 'Manley-Rowe' "$tmp/ex/out/$ex.md" && [ "$(ls "$tmp/ex/out/" | grep -c '\.svg$')" -ge 3 ]; then
+        pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: example-$ex-report"; fi
+    rm -rf "$tmp/ex/out"
+done
 # Write errors on standard output are failures, not silent successes.
 if [ -w /dev/full ]; then
     for c in --version --help "run $tmp/ok.dk" "crystals"; do
