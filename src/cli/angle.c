@@ -44,6 +44,7 @@ static const char *const angle_usage[] = {
     "incidence angles",
     "  --curve              CSV of the phase-matching directions theta(phi), "
     "phi 0-90 deg",
+    CLI_DESIGN_USAGE,
     NULL};
 
 #define ALLOWED (CLI_D_COMMON | CLI_D_ANGLE)

@@ -41,6 +41,11 @@ enum {
                       CLI_D(OPT_PROCESS))
 #define CLI_D_ALL ((1u << CLI_NDESIGN) - 1)
 
+/* The usage line of the options every design command shares. */
+#define CLI_DESIGN_USAGE                                                     \
+    "  --scheme qpm|birefringent, --process shg|sfg|dfg|opa|opo  the "       \
+    "design's scheme and process (default: chosen by rule and noted)"
+
 #define CLI_DESIGN_OPTIONS                                                   \
     {"pump", required_argument, NULL, OPT_PUMP},                             \
         {"signal", required_argument, NULL, OPT_SIGNAL},                     \

@@ -45,6 +45,7 @@ static const char *const gain_usage[] = {
     "wavelength",
     "  --plot <file>    the gain spectrum as a figure (.pdf, .svg, .png)",
     CLI_PLOT_USAGE,
+    CLI_DESIGN_USAGE,
     NULL};
 
 #define ALLOWED CLI_D_ALL

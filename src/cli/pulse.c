@@ -49,6 +49,7 @@ static const char *const pulse_usage[] = {
     "signal-idler along the signal (zero at the broadband angle).",
     "Poled crystals get the QPM design unless --type or an angle option is "
     "given (--scheme overrides).",
+    CLI_DESIGN_USAGE,
     NULL};
 
 #define DEG DK_RAD_PER_DEG

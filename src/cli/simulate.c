@@ -67,6 +67,7 @@ static const char *const simulate_usage[] = {
     "beside); exact k(w) of each wave's mode;",
     "QPM crystals get their domains written (bulk d); the step is checked "
     "by halving it.",
+    CLI_DESIGN_USAGE,
     NULL};
 
 #define ALLOWED CLI_D_ALL

@@ -49,6 +49,7 @@ static const char *const sweep_usage[] = {
     "pump=1.05um:1.08um --map temp=20:200 --length 20mm --plot map.png",
     "  deltak sweep --crystal BBO --pump 400nm --vary theta=29:33 --solve "
     "signal --family alpha=0,2,3.8 --plot nopa.pdf",
+    CLI_DESIGN_USAGE,
     NULL};
 
 #define DEFAULT_POINTS 201

@@ -47,6 +47,7 @@ static const char *const tolerance_usage[] = {
     "",
     "Poled crystals get a QPM design unless --type or an angle option is "
     "given (--scheme overrides).",
+    CLI_DESIGN_USAGE,
     NULL};
 
 #define DEG DK_RAD_PER_DEG
