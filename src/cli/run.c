@@ -13,7 +13,8 @@
  *
  * What a design file may write: only its report (FILE.md and FILE.json)
  * and the figures its steps draw (--plot), and only inside the folder
- * that holds the design file. Their paths are resolved against that
+ * that holds the design file; what it may read (measured spectra of
+ * `simulate`, spectrum=FILE): only files in that folder. Their paths are resolved against that
  * folder; absolute paths, ".." and links that point elsewhere are refused.
  * The report says where each file went. (`--report PATH` on the command
  * line is the user's own choice and is taken relative to the current
@@ -78,6 +79,8 @@ typedef struct step {
     char *argv[RUN_MAX_ARGS + 2];    /* argv[0] is this program */
     char buf[RUN_MAX_LINE + 1];      /* the words of argv */
     char figure[PATH_MAX];           /* resolved --plot path, or "" */
+    char inputs[4][RUN_MAX_LINE + PATH_MAX]; /* --*-in with spectrum=
+                                              * files resolved */
     char *out, *err, *json;
     size_t nout, nerr, njson;
     int status;
@@ -301,6 +304,36 @@ parse_step(const char *path, const char *dir, int lineno, const char *s,
                          "period, pulse, sweep, tolerance)",
                          path, lineno, cmd);
     st->argc = na + 1;
+    /* Measured spectra are read from the design file's folder only. */
+    int nin = 0;
+    for (int k = 2; k + 1 < st->argc; k++) {
+        const char *a = st->argv[k];
+        size_t la = strlen(a);
+        if (strncmp(a, "--", 2) || la < 5 || strcmp(a + la - 3, "-in"))
+            continue;
+        const char *spec = strstr(st->argv[k + 1], "spectrum=");
+        if (!spec)
+            continue;
+        if (nin >= 4)
+            return cli_error("'%s', line %d: too many input pulses", path,
+                             lineno);
+        char rel[PATH_MAX], full[PATH_MAX];
+        const char *v0 = spec + 9;
+        size_t lv = strcspn(v0, ",");
+        snprintf(rel, sizeof rel, "%.*s", (int)lv, v0);
+        int rc = inside(dir, rel, path, lineno, full, sizeof full);
+        if (rc)
+            return rc;
+        struct stat sb;
+        if (stat(full, &sb) || !S_ISREG(sb.st_mode))
+            return cli_error("'%s', line %d: spectrum file '%s' is not a "
+                             "regular file in the design file's folder",
+                             path, lineno, rel);
+        const char *arg = st->argv[k + 1];
+        snprintf(st->inputs[nin], sizeof st->inputs[nin], "%.*s%s%s",
+                 (int)(v0 - arg), arg, full, v0 + lv);
+        st->argv[k + 1] = st->inputs[nin++];
+    }
     /* A figure path is resolved against the design file's folder. */
     for (int k = 2; k < st->argc; k++) {
         const char *a = st->argv[k], *val = NULL;

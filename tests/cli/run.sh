@@ -329,6 +329,8 @@ printf 'report: out/p.md\nsweep --crystal MgO:LN --pump 1064nm --vary period=28u
 expect run-figure 0 'ran 1 steps' -- run "$tmp/proj/p.dk"
 if [ -s "$tmp/proj/out/t.svg" ] && grep -q '(t.svg)' "$tmp/proj/out/p.md"; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-figure-beside-report"; fi
+printf 'simulate --crystal BBO --fundamental 800nm --type I --length 1mm --fundamental-in energy=1uJ,spectrum=../../etc/passwd\n' > "$tmp/spec.dk"
+expect run-spectrum-escape 1 'leaves the design file' -- run "$tmp/spec.dk" --check
 # A killed run leaves no step running and no temporary file behind.
 mkdir -p "$tmp/slow"
 printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --plot slow.svg\n' > "$tmp/slow/s.dk"
