@@ -6,7 +6,7 @@
 
 VERSION := 0.1.0
 CC      ?= gcc
-PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3
+PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3 libmicrohttpd
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
 # `make V=1` shows the full compiler lines.
@@ -26,7 +26,10 @@ LDLIBS_ALL = $(PKG_LIBS) -lm
 # main.c is the program's own.
 LIB_SRC := $(filter-out src/cli/main.c,$(wildcard src/*/*.c))
 CLI_SRC := src/cli/main.c
-LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
+# The page of `deltak explore` (web/) is compiled in (explore_assets.c).
+WEB_FILES := web/index.html web/explore.css web/explore.js
+ASSETS_C := $(BUILD)/gen/explore_assets.c
+LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o) $(BUILD)/gen/explore_assets.o
 CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
@@ -51,6 +54,15 @@ deps: $(DEPCHECK)
 
 $(BUILD)/%.o: %.c | $(DEPCHECK)
 	@mkdir -p $(dir $@)
+	@echo "  CC      $<"
+	$(Q)$(CC) $(ALL_CFLAGS) -c $< -o $@
+
+$(ASSETS_C): $(WEB_FILES) src/explore/embed_assets.sh
+	@mkdir -p $(dir $@)
+	@echo "  EMBED   $@"
+	$(Q)sh src/explore/embed_assets.sh $@ $(WEB_FILES)
+
+$(BUILD)/gen/explore_assets.o: $(ASSETS_C) src/explore/explore.h | $(DEPCHECK)
 	@echo "  CC      $<"
 	$(Q)$(CC) $(ALL_CFLAGS) -c $< -o $@
 

@@ -19,6 +19,8 @@ const cli_cmd cli_commands[] = {
      "multi-grating and fan-out poling layouts covering a target range"},
     {"crystals", cmd_crystals, 1,
      "list the crystal database, or show one crystal's data and sources"},
+    {"explore", cmd_explore, 0,
+     "a local page on 127.0.0.1: move sliders, watch the design follow"},
     {"gain", cmd_gain, 1,
      "conversion efficiency, parametric gain and bandwidth, focusing"},
     {"index", cmd_index, 1,

@@ -17,6 +17,7 @@
 int cmd_angle(int argc, char **argv);
 int cmd_chip(int argc, char **argv);
 int cmd_crystals(int argc, char **argv);
+int cmd_explore(int argc, char **argv);
 int cmd_gain(int argc, char **argv);
 int cmd_index(int argc, char **argv);
 int cmd_period(int argc, char **argv);
