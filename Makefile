@@ -31,7 +31,7 @@ WEB_FILES := web/index.html web/explore.css web/explore.js
 ASSETS_C := $(BUILD)/gen/explore_assets.c
 LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o) $(BUILD)/gen/explore_assets.o
 CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
-TEST_SRC := $(wildcard tests/test_*.c)
+TEST_SRC := $(wildcard tests/test_*.c tests/explore/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
 .PHONY: all deps check unit cli-tests asan asan-cli demo bench plots fuzz clean help

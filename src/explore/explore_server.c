@@ -50,7 +50,8 @@ struct explore_server {
 /* What the raw request target looked like (before MHD decoded it). */
 typedef struct raw_uri {
     int too_long;
-    int bad_path;       /* a path character outside [A-Za-z0-9/._-] */
+    int bad_path;       /* a path character outside [A-Za-z0-9/._-],
+                           "..", "//", or no leading '/' */
     int bad_escape;     /* '%' not followed by two hex digits */
     int headers_seen;   /* the handler was called once (headers read) */
 } raw_uri;
@@ -70,6 +71,14 @@ log_uri(void *cls, const char *uri, struct MHD_Connection *conn)
         if (!isalnum(c) && c != '/' && c != '.' && c != '_' && c != '-')
             r->bad_path = 1;
     }
+    /* No "..", "//" or path without a leading '/': nothing here is a
+     * file, but such a path is not one the page asks for either. */
+    const char *dots = strstr(uri, "..");
+    if (uri[0] != '/' || (dots && dots < uri + path_end))
+        r->bad_path = 1;
+    for (size_t i = 0; i + 1 < path_end; i++)
+        if (uri[i] == '/' && uri[i + 1] == '/')
+            r->bad_path = 1;
     for (size_t i = path_end; i < n && !r->too_long; i++)
         if (uri[i] == '%' &&
             !(isxdigit((unsigned char)uri[i + 1]) &&
@@ -352,7 +361,7 @@ handle(void *cls, struct MHD_Connection *conn, const char *url,
     if (raw && raw->bad_path)
         return send_error(conn, 400, "malformed path: only letters, "
                                      "digits, '/', '.', '_' and '-' are "
-                                     "used here",
+                                     "used here, without '..' or '//'",
                           -1, NULL);
     if (raw && raw->bad_escape)
         return send_error(conn, 400, "malformed query: '%' must be "
