@@ -34,7 +34,7 @@ CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c tests/explore/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
-.PHONY: all deps check unit cli-tests asan asan-cli demo bench plots fuzz clean help
+.PHONY: all deps check unit cli-tests explore-tests explore-load asan asan-cli demo bench plots fuzz clean help
 
 all: $(BUILD)/deltak
 
@@ -43,6 +43,7 @@ help:
 	@echo "make check      build and run every test (also under ASan+UBSan)"
 	@echo "make demo       run the demo scenarios on the shipped database"
 	@echo "make bench      measure speed (benchmarks never run in check)"
+	@echo "make explore-load  load-test the page's server on loopback (needs wrk)"
 	@echo "make plots      regenerate the figures in plots/"
 	@echo "make fuzz       fuzz parsers and loaders (needs clang; FUZZ_RUNS=1000000)"
 
@@ -88,6 +89,20 @@ unit: $(TEST_BIN)
 
 cli-tests: $(BUILD)/deltak
 	@sh tests/cli/run.sh $(BUILD)/deltak
+
+# `deltak explore` over HTTP: the API against the command line, bad
+# requests, concurrency, deadline (tests/explore/api.py); then the page in
+# headless Chromium when chromium and node are there (tests/explore/
+# browser.sh; screenshots in build/explore/). Prints "explore: ..." and
+# "browser: ..." lines.
+explore-tests: $(BUILD)/deltak
+	@python3 tests/explore/api.py $(BUILD)/deltak
+	@sh tests/explore/browser.sh $(BUILD)/deltak $(BUILD)/explore
+
+# Load on loopback with wrk: requests per second and latency percentiles
+# of a period query and a tuning-curve SVG (measures; not in check).
+explore-load: $(BUILD)/deltak
+	@sh tests/explore/load.sh $(BUILD)/deltak $(or $(LOAD_SECONDS),10) $(or $(LOAD_CONNECTIONS),4)
 
 # The unit tests once more, built with AddressSanitizer and UBSan.
 asan: | $(DEPCHECK)

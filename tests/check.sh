@@ -1,5 +1,6 @@
 #!/bin/sh
-# make check: unit tests, command-line tests, then both again under
+# make check: unit tests, command-line tests, the explore server and page
+# (tests/explore/), then unit and command-line tests again under
 # AddressSanitizer + UndefinedBehaviorSanitizer. Prints one closing line
 # "checks: N passed, M failed".
 MAKE_CMD=$1; BUILD=$2
@@ -8,9 +9,11 @@ log=$BUILD/check.log
 status=0
 $MAKE_CMD --no-print-directory unit >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory cli-tests >>"$log" 2>&1 || status=1
+$MAKE_CMD --no-print-directory explore-tests >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory asan >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory asan-cli >>"$log" 2>&1 || status=1
-grep -E '^(unit|cli|cli-asan): [0-9]+ passed' "$log" > "$BUILD/check.sum"
+grep -E '^(unit|cli|cli-asan|explore|browser): [0-9]+ passed' "$log" > "$BUILD/check.sum"
+grep -E '^browser: skipped' "$log"
 grep -E 'FAILED|^not ok|error:|Error|runtime error|AddressSanitizer' "$log" | head -40
 pass=$(awk '{s+=$2} END{print s+0}' "$BUILD/check.sum")
 fail=$(awk '{s+=$4} END{print s+0}' "$BUILD/check.sum")

@@ -125,7 +125,7 @@ async function showFigure(name, c, signal) {
     if (!r.ok) {
         let msg = "HTTP " + r.status;
         try { msg = (await r.json()).error || msg; } catch (e) { /* keep */ }
-        box.classList.remove("waiting");
+        clearFigure(name);
         return {error: msg};
     }
     const blob = await r.blob();
@@ -143,6 +143,22 @@ async function showFigure(name, c, signal) {
     box.classList.remove("waiting");
     figures[name] = {call: c};
     return {notes: decodeNotes(r.headers.get("X-Deltak-Notes"))};
+}
+
+function clearFigure(name) {
+    const img = $(name + "-img");
+    img.removeAttribute("src");
+    img.parentElement.classList.remove("waiting");
+    delete figures[name];
+}
+
+/* Nothing to analyse (no design): empty the other cards, say why. */
+function clearAnalyses(why) {
+    clearFigure("tuning");
+    clearFigure("acceptance");
+    setNotes("tuning-notes", []);
+    showAcceptance({}, null);
+    showPulse({error: why});
 }
 
 /* ---- Showing answers ------------------------------------------------- */
@@ -424,6 +440,7 @@ async function updateQpm(signal, note) {
     if (state.period === "") {
         setNumbers("op-numbers", []);
         setNotes("op-notes", opItems);
+        clearAnalyses("no design: see the operating point");
         return;
     }
     keepInRange("period", state.period, 3, 1, 200, 0.01);
@@ -484,7 +501,7 @@ async function updateQpm(signal, note) {
                              ["vary", "period=" + fixed(Pnum - 2, 2) + "um:" +
                                       fixed(Pnum + 2, 2) + "um:81"],
                              ["solve", "wavelengths"]])
-            : call("sweep", [...base(), ["pump", state.pump], P,
+            : call("sweep", [...base(), ["pump", state.pump], P, T,
                              ["vary", "temp=20:200:91"],
                              ["solve", "wavelengths"]]);
     }
@@ -492,6 +509,7 @@ async function updateQpm(signal, note) {
         note(tuning, "tuning.svg");
         const tf = await showFigure("tuning", tuning, signal);
         setNotes("tuning-notes", notesOf(tf));
+        clearFigure("acceptance");
         showAcceptance({}, null);
         showPulse({error: "no operating point"});
         return;
@@ -525,6 +543,7 @@ async function updateAngle(signal, note) {
     if (!sol || state.theta === "") {
         setNumbers("op-numbers", rows);
         setNotes("op-notes", opItems);
+        clearAnalyses("no design: see the operating point");
         return;
     }
     keepInRange("theta", state.theta, 5, 0, 90, 0.01);
@@ -582,6 +601,7 @@ async function updateAngle(signal, note) {
         note(tuning, "tuning.svg");
         const tf = await showFigure("tuning", tuning, signal);
         setNotes("tuning-notes", notesOf(tf));
+        clearFigure("acceptance");
         showAcceptance({}, null);
         showPulse({error: "no signal and idler phase-match at this angle"});
         return;

@@ -159,6 +159,11 @@ pool_answers(void **state)
     assert_int_equal(pooled.exit_code, 2);
     assert_non_null(strstr(pooled.err, "has no unit"));
     dk_command_result_free(&pooled);
+    /* explore itself is no in-process command (it serves forever). */
+    char *self[] = {"explore", "--port=0", NULL};
+    assert_int_equal(explore_pool_run(p, 2, self, 30, &pooled), EXPLORE_DONE);
+    assert_int_equal(pooled.exit_code, 2);
+    dk_command_result_free(&pooled);
     explore_pool_stop(p);
     explore_pool_stop(NULL);
     assert_int_equal(explore_pool_start(0, 4, &p), EINVAL);
