@@ -34,7 +34,7 @@ CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c tests/explore/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
-.PHONY: all deps check unit cli-tests explore-tests explore-load asan asan-cli demo bench plots fuzz clean help
+.PHONY: all deps check unit cli-tests explore-tests explore-load explore-asan asan asan-cli demo bench plots fuzz clean help
 
 all: $(BUILD)/deltak
 
@@ -120,6 +120,15 @@ asan-cli: | $(DEPCHECK)
 	@LSAN_OPTIONS=suppressions=$(abspath tests/lsan.supp) \
 	    sh tests/cli/run.sh $(BUILD)/asan/deltak > $(BUILD)/asan/cli.log; \
 	    rc=$$?; sed 's/^cli:/cli-asan:/' $(BUILD)/asan/cli.log; exit $$rc
+
+# The explore server's HTTP tests once more against the sanitized program.
+explore-asan: | $(DEPCHECK)
+	@$(MAKE) --no-print-directory BUILD=$(BUILD)/asan \
+	    CFLAGS="-O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=all" \
+	    DEPCHECK=$(DEPCHECK) $(BUILD)/asan/deltak
+	@LSAN_OPTIONS=suppressions=$(abspath tests/lsan.supp) \
+	    python3 tests/explore/api.py $(BUILD)/asan/deltak > $(BUILD)/asan/explore.log; \
+	    rc=$$?; sed 's/^explore:/explore-asan:/' $(BUILD)/asan/explore.log; exit $$rc
 
 check: $(BUILD)/deltak $(TEST_BIN)
 	@sh tests/check.sh "$(MAKE)" $(BUILD)

@@ -12,7 +12,8 @@ $MAKE_CMD --no-print-directory cli-tests >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory explore-tests >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory asan >>"$log" 2>&1 || status=1
 $MAKE_CMD --no-print-directory asan-cli >>"$log" 2>&1 || status=1
-grep -E '^(unit|cli|cli-asan|explore|browser): [0-9]+ passed' "$log" > "$BUILD/check.sum"
+$MAKE_CMD --no-print-directory explore-asan >>"$log" 2>&1 || status=1
+grep -E '^(unit|cli|cli-asan|explore|explore-asan|browser): [0-9]+ passed' "$log" > "$BUILD/check.sum"
 grep -E '^browser: skipped' "$log"
 grep -E 'FAILED|^not ok|error:|Error|runtime error|AddressSanitizer' "$log" | head -40
 pass=$(awk '{s+=$2} END{print s+0}' "$BUILD/check.sum")

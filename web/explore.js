@@ -452,12 +452,25 @@ async function updateQpm(signal, note) {
     const op = call("period", shg ? [...base(), ...waves(), P]
                                   : [...base(), ["pump", state.pump], P, T]);
     note(op);
-    const oj = await getJson(op, signal);
+    /* The oven temperature at which this grating gives the wanted idler. */
+    const oven = shg ? null : call("period", [...base(), ...waves(), P]);
+    if (oven)
+        note(oven);
+    const [oj, vj] = await Promise.all([getJson(op, signal),
+                                        oven ? getJson(oven, signal) : null]);
     const rows = [];
     if (designPeriod !== null)
         rows.push([shg ? "period for SHG at " + state.temp + " °C"
                        : "period for the wanted idler",
                    num(designPeriod, 6, "µm"), dj.data.flags]);
+    if (vj && vj.data) {
+        const temps = (vj.data.solutions || []).map((x) => num(x.temperature_C, 5, "°C"));
+        rows.push(["oven for the wanted idler", temps.join(", ") ||
+                   num(vj.data.temperature_C, 5, "°C"), vj.data.flags,
+                   "oven_C"]);
+    } else if (vj) {
+        rows.push(["oven for the wanted idler", "none in range"]);
+    }
     let operating = null, tuning;
     if (oj.data) {
         const d = oj.data;

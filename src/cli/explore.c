@@ -4,13 +4,16 @@
  *
  * Signals: SIGINT, SIGTERM and SIGHUP are blocked before any thread
  * starts, so every thread inherits the mask and only this one takes them,
- * with sigwait(); then the server stops taking connections, finishes the
- * requests in progress and the program ends with status 0.
+ * with sigwait(); then the server stops taking connections, answers the
+ * requests in progress and the program ends with status 0 (at once, by
+ * _exit, when a long computation nobody waits for any more is still
+ * running: it cannot be stopped halfway safely).
  */
 #include <pthread.h>
 #include <signal.h>
 #include <stdio.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cli.h"
 #include "commands.h"
@@ -89,10 +92,17 @@ cmd_explore(int argc, char **argv)
     fflush(out);
     int sig = 0;
     sigwait(&stop, &sig);
-    explore_server_stop(srv);
-    fprintf(out, "deltak explore: stopped (%s)\n",
-            sig == SIGINT ? "Ctrl-C" : sig == SIGTERM ? "SIGTERM" : "SIGHUP");
+    int running = explore_server_stop(srv);
+    fprintf(out, "deltak explore: stopped (%s)%s\n",
+            sig == SIGINT ? "Ctrl-C" : sig == SIGTERM ? "SIGTERM" : "SIGHUP",
+            running ? "; a computation nobody waited for was abandoned" : "");
     fflush(out);
+    if (running) {
+        /* Exit handlers (fontconfig's, the C library's) must not run
+         * under a thread that is still computing. */
+        fflush(NULL);
+        _exit(0);
+    }
     sigaction(SIGPIPE, &old_pipe, NULL);
     pthread_sigmask(SIG_SETMASK, &old, NULL);
     return 0;

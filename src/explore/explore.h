@@ -111,14 +111,24 @@ int explore_pool_start(int workers, int queue, explore_pool **pool);
  * queue if it had not started, else left to finish in its worker (a
  * command cannot be stopped halfway without leaking what it holds; the
  * bounds of explore_call_finish() keep that time short) and its result
- * is thrown away. ENOMEM-like failures give EXPLORE_BUSY.
+ * is thrown away. EXPLORE_BUSY also when out of memory or when the pool
+ * closes while the call waits.
  */
 int explore_pool_run(explore_pool *pool, int argc, char *const *argv,
                      double deadline_s, dk_command_result *res);
 
-/* Stop taking calls, let running ones finish, join the workers and free
- * the pool. NULL does nothing. */
-void explore_pool_stop(explore_pool *pool);
+/* Stop taking calls: new and waiting requesters get EXPLORE_BUSY at
+ * once (queued calls are dropped, running ones left to finish). NULL
+ * does nothing. */
+void explore_pool_close(explore_pool *pool);
+
+/* Close, wait up to 2 s for the workers to finish the calls in hand,
+ * join them and free the pool. A worker still busy then (a long call
+ * nobody waits for) cannot be stopped safely: it is detached and the
+ * pool left to the end of the process. Returns 0 when every worker
+ * ended, 1 when one was left running (end the process with _exit then:
+ * exit handlers must not run under a computing thread). NULL: 0. */
+int explore_pool_stop(explore_pool *pool);
 
 /* ---- The page (explore_assets.c, generated) ------------------------- */
 
@@ -152,7 +162,9 @@ typedef struct explore_server explore_server;
 int explore_server_start(const explore_config *cfg, explore_server **srv,
                          unsigned *port_out, char *msg, size_t nmsg);
 
-/* Stop listening, finish the requests in progress, free. NULL: nothing. */
-void explore_server_stop(explore_server *srv);
+/* Stop listening, answer the requests in progress, stop the workers
+ * (explore_pool_stop) and free. Returns what explore_pool_stop returns:
+ * 1 when a computation was left running. NULL: 0. */
+int explore_server_stop(explore_server *srv);
 
 #endif /* DK_EXPLORE_H */

@@ -3,9 +3,10 @@
  * in-process (dk_command_run) for the server, each call with a deadline
  * (see explore.h).
  *
- * Method: a bounded FIFO queue under one mutex; each call has its own
- * condition variable on which the requesting thread waits with
- * pthread_cond_timedwait (CLOCK_MONOTONIC). A call is shared by the
+ * Method: a bounded FIFO queue under one mutex; requesters wait for
+ * their call on one condition variable, broadcast when any call is done
+ * or the pool closes, with pthread_cond_timedwait (CLOCK_MONOTONIC), and
+ * recheck their own call. A call is shared by the
  * requester and the worker and freed by whichever lets go last: a
  * requester that gives up (deadline) marks it abandoned, and the worker
  * frees its result when it is done. The number of workers bounds the
@@ -26,22 +27,25 @@
 
 enum { CALL_QUEUED, CALL_RUNNING, CALL_DONE };
 
+#define STOP_GRACE_S 2.0   /* how long stopping waits for running calls */
+
 typedef struct call {
     int argc;
     char **argv;               /* one block: pointers, then the strings */
     dk_command_result res;
     int state;                 /* CALL_* */
     int abandoned;             /* the requester stopped waiting */
-    pthread_cond_t done;
 } call;
 
 struct explore_pool {
     pthread_mutex_t lock;
-    pthread_cond_t work;       /* a call was queued, or stop */
+    pthread_cond_t work;       /* a call was queued, or closing */
+    pthread_cond_t done;       /* a call is done, a worker ended, or
+                                  closing */
     call **queue;              /* ring of @cap */
     int cap, head, count;
-    int stopping;
-    int nthreads;
+    int closing;
+    int nthreads, ended;
     pthread_t *threads;
 };
 
@@ -49,7 +53,6 @@ static void
 call_free(call *c)
 {
     dk_command_result_free(&c->res);
-    pthread_cond_destroy(&c->done);
     free(c->argv);
     free(c);
 }
@@ -62,16 +65,7 @@ call_new(int argc, char *const *argv)
         bytes += strlen(argv[i]) + 1;
     call *c = calloc(1, sizeof *c);
     char **v = malloc(bytes);
-    pthread_condattr_t attr;
-    if (!c || !v || pthread_condattr_init(&attr)) {
-        free(c);
-        free(v);
-        return NULL;
-    }
-    pthread_condattr_setclock(&attr, CLOCK_MONOTONIC);
-    int bad = pthread_cond_init(&c->done, &attr);
-    pthread_condattr_destroy(&attr);
-    if (bad) {
+    if (!c || !v) {
         free(c);
         free(v);
         return NULL;
@@ -96,10 +90,10 @@ worker(void *arg)
     explore_pool *p = arg;
     pthread_mutex_lock(&p->lock);
     for (;;) {
-        while (!p->count && !p->stopping)
+        while (!p->count && !p->closing)
             pthread_cond_wait(&p->work, &p->lock);
-        if (!p->count && p->stopping)
-            break;
+        if (p->closing)
+            break;   /* queued calls are taken back by their requesters */
         call *c = p->queue[p->head];
         p->head = (p->head + 1) % p->cap;
         p->count--;
@@ -115,10 +109,40 @@ worker(void *arg)
         if (c->abandoned)
             call_free(c);
         else
-            pthread_cond_signal(&c->done);
+            pthread_cond_broadcast(&p->done);
     }
+    p->ended++;
+    pthread_cond_broadcast(&p->done);
     pthread_mutex_unlock(&p->lock);
     return NULL;
+}
+
+static int
+cond_init_monotonic(pthread_cond_t *cv)
+{
+    pthread_condattr_t attr;
+    if (pthread_condattr_init(&attr))
+        return -1;
+    pthread_condattr_setclock(&attr, CLOCK_MONOTONIC);
+    int e = pthread_cond_init(cv, &attr);
+    pthread_condattr_destroy(&attr);
+    return e;
+}
+
+/* Now plus @seconds on CLOCK_MONOTONIC. */
+static struct timespec
+after(double seconds)
+{
+    struct timespec t;
+    clock_gettime(CLOCK_MONOTONIC, &t);
+    double whole = (double)(long)seconds;
+    t.tv_sec += (time_t)whole;
+    t.tv_nsec += (long)((seconds - whole) * 1e9);
+    if (t.tv_nsec >= 1000000000L) {
+        t.tv_sec++;
+        t.tv_nsec -= 1000000000L;
+    }
+    return t;
 }
 
 int
@@ -141,11 +165,20 @@ explore_pool_start(int workers, int queue, explore_pool **pool)
     }
     pthread_mutex_init(&p->lock, NULL);
     pthread_cond_init(&p->work, NULL);
+    if (cond_init_monotonic(&p->done)) {
+        pthread_mutex_destroy(&p->lock);
+        pthread_cond_destroy(&p->work);
+        free(p->queue);
+        free(p->threads);
+        free(p);
+        return ENOMEM;
+    }
     for (int i = 0; i < workers; i++) {
         int e = pthread_create(&p->threads[i], NULL, worker, p);
         if (e) {
             p->nthreads = i;
-            explore_pool_stop(p);
+            explore_pool_close(p);
+            (void)explore_pool_stop(p);
             return e;
         }
     }
@@ -162,18 +195,9 @@ explore_pool_run(explore_pool *p, int argc, char *const *argv,
     call *c = call_new(argc, argv);
     if (!c)
         return EXPLORE_BUSY;
-    struct timespec until;
-    clock_gettime(CLOCK_MONOTONIC, &until);
-    double whole = (double)(long)deadline_s;
-    until.tv_sec += (time_t)whole;
-    until.tv_nsec += (long)((deadline_s - whole) * 1e9);
-    if (until.tv_nsec >= 1000000000L) {
-        until.tv_sec++;
-        until.tv_nsec -= 1000000000L;
-    }
-
+    struct timespec until = after(deadline_s);
     pthread_mutex_lock(&p->lock);
-    if (p->stopping || p->count >= p->cap) {
+    if (p->closing || p->count >= p->cap) {
         pthread_mutex_unlock(&p->lock);
         call_free(c);
         return EXPLORE_BUSY;
@@ -182,8 +206,8 @@ explore_pool_run(explore_pool *p, int argc, char *const *argv,
     p->count++;
     pthread_cond_signal(&p->work);
     int late = 0;
-    while (c->state != CALL_DONE && !late)
-        late = pthread_cond_timedwait(&c->done, &p->lock, &until) ==
+    while (c->state != CALL_DONE && !late && !p->closing)
+        late = pthread_cond_timedwait(&p->done, &p->lock, &until) ==
                ETIMEDOUT;
     if (c->state == CALL_DONE) {
         *res = c->res;
@@ -192,11 +216,11 @@ explore_pool_run(explore_pool *p, int argc, char *const *argv,
         call_free(c);
         return EXPLORE_DONE;
     }
+    int how = p->closing ? EXPLORE_BUSY : EXPLORE_LATE;
     if (c->state == CALL_QUEUED) {
         /* Not started: take it out of the queue. */
         for (int i = 0; i < p->count; i++) {
-            int k = (p->head + i) % p->cap;
-            if (p->queue[k] != c)
+            if (p->queue[(p->head + i) % p->cap] != c)
                 continue;
             for (int j = i; j + 1 < p->count; j++)
                 p->queue[(p->head + j) % p->cap] =
@@ -206,28 +230,55 @@ explore_pool_run(explore_pool *p, int argc, char *const *argv,
         }
         pthread_mutex_unlock(&p->lock);
         call_free(c);
-        return EXPLORE_LATE;
+        return how;
     }
     c->abandoned = 1;   /* the worker frees it */
     pthread_mutex_unlock(&p->lock);
-    return EXPLORE_LATE;
+    return how;
 }
 
 void
-explore_pool_stop(explore_pool *p)
+explore_pool_close(explore_pool *p)
 {
     if (!p)
         return;
     pthread_mutex_lock(&p->lock);
-    p->stopping = 1;
+    p->closing = 1;
     pthread_cond_broadcast(&p->work);
+    pthread_cond_broadcast(&p->done);
     pthread_mutex_unlock(&p->lock);
+}
+
+int
+explore_pool_stop(explore_pool *p)
+{
+    if (!p)
+        return 0;
+    explore_pool_close(p);
+    /* Workers end after the call in hand. One still busy after the
+     * grace period (a long call whose requester gave up) cannot be
+     * stopped safely: it is left to the end of the process, with the
+     * pool it uses. */
+    struct timespec until = after(STOP_GRACE_S);
+    int late = 0;
+    pthread_mutex_lock(&p->lock);
+    while (p->ended < p->nthreads && !late)
+        late = pthread_cond_timedwait(&p->done, &p->lock, &until) ==
+               ETIMEDOUT;
+    int all = p->ended == p->nthreads;
+    pthread_mutex_unlock(&p->lock);
+    if (!all) {
+        for (int i = 0; i < p->nthreads; i++)
+            pthread_detach(p->threads[i]);
+        return 1;
+    }
     for (int i = 0; i < p->nthreads; i++)
         pthread_join(p->threads[i], NULL);
-    /* Workers drain the queue before they stop, so nothing is left. */
     pthread_mutex_destroy(&p->lock);
     pthread_cond_destroy(&p->work);
+    pthread_cond_destroy(&p->done);
     free(p->queue);
     free(p->threads);
     free(p);
+    return 0;
 }

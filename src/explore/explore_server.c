@@ -279,8 +279,8 @@ answer_call(explore_server *s, struct MHD_Connection *conn, const char *url)
     const char *format = call->format;
     free(call);
     if (how == EXPLORE_BUSY)
-        return send_error(conn, 503, "every worker is busy; try again in a "
-                                     "moment",
+        return send_error(conn, 503, "every worker is busy (or the server "
+                                     "is stopping); try again in a moment",
                           -1, NULL);
     if (how == EXPLORE_LATE) {
         char msg[200];
@@ -421,7 +421,7 @@ explore_server_start(const explore_config *cfg, explore_server **srv,
                             "taken? pick another with --port, or --port 0 "
                             "for any free one)",
                  cfg->port);
-        explore_pool_stop(s->pool);
+        (void)explore_pool_stop(s->pool);
         free(s);
         return -1;
     }
@@ -435,12 +435,16 @@ explore_server_start(const explore_config *cfg, explore_server **srv,
     return 0;
 }
 
-void
+int
 explore_server_stop(explore_server *s)
 {
     if (!s)
-        return;
+        return 0;
+    /* Waiting requests are answered "busy" at once, so that the
+     * daemon's threads end without waiting for their deadlines. */
+    explore_pool_close(s->pool);
     MHD_stop_daemon(s->daemon);
-    explore_pool_stop(s->pool);
+    int running = explore_pool_stop(s->pool);
     free(s);
+    return running;
 }

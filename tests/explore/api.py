@@ -159,6 +159,13 @@ def main():
 
 
 def run_checks(port):
+    # Listening on loopback only (Linux: /proc/net/tcp, state 0A).
+    with open("/proc/net/tcp") as f:
+        listen = [l.split()[1] for l in f.readlines()[1:]
+                  if l.split()[3] == "0A" and
+                  int(l.split()[1].split(":")[1], 16) == port]
+    check("loopback-only", listen == ["0100007F:%04X" % port], str(listen))
+
     # The page itself.
     st, h, body = get(port, "/")
     check("page", st == 200 and b"deltak" in body and

@@ -51,7 +51,9 @@ async function settled(page, after) {
 const generationOf = (page) =>
     page.evaluate(() => Number(document.body.dataset.generation || 0));
 
-const same6 = (a, b) => Number(a.toPrecision(6)) === Number(Number(b).toPrecision(6));
+/* Equal to the digits the page shows. */
+const sameN = (a, b, n) => Number(a.toPrecision(n)) === Number(Number(b).toPrecision(n));
+const same6 = (a, b) => sameN(a, b, 6);
 
 const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM || "/usr/bin/chromium",
@@ -144,7 +146,22 @@ try {
     check("figure-pdf", fs.readFileSync(pdf).subarray(0, 5).toString() === "%PDF-");
     fs.rmSync(dir, {recursive: true});
 
-    /* 5. A bare number: the command's message on the page. */
+    /* The oven temperature for the wanted idler with this grating (the
+     * demo's question), as the command line gives it. */
+    const oven = cli(["period", "--crystal", "MgO:LN", "--pump", "1064nm",
+                      "--idler", "3.4um", "--period", "30.5um", "--json"]);
+    check("oven-is-cli", sameN(await shown(page, "oven_C"), oven.temperature_C, 5),
+          `${await shown(page, "oven_C")} vs ${oven.temperature_C}`);
+
+    /* 5. A grating that sends the idler outside the data set's fitted
+     * range: the flag stands beside the number. */
+    const far = await context.newPage();
+    await far.goto(base + "#crystal=MgO:LN&pump=1064nm&idler=3.4um&temp=40&period=27.5&length=20");
+    await settled(far, 0);
+    const flag = await far.locator('dd[data-key="idler_um"] .flag').innerText();
+    check("range-flag-beside-idler", flag.includes("idler"), flag);
+
+    /* 6. A bare number: the command's message on the page. */
     const bad = await context.newPage();
     await bad.goto(base + "#crystal=MgO:LN&pump=1064&idler=3.4um&temp=40");
     await bad.waitForFunction(() => document.getElementById("status").textContent === "up to date",
@@ -153,7 +170,7 @@ try {
     check("bare-number-message", notes.includes("has no unit"), notes);
     await bad.screenshot({path: path.join(outdir, "explore-bad-input.png"), fullPage: true});
 
-    /* 6. A birefringent design: the angle is the command line's. */
+    /* 7. A birefringent design: the angle is the command line's. */
     const bbo = await context.newPage();
     await bbo.goto(base + "#crystal=BBO&scheme=angle&process=shg&fundamental=1030nm&type=I&length=2&temp=25");
     await settled(bbo, 0);
