@@ -20,11 +20,12 @@ if [ ! -d "$OUT/node_modules/playwright-core" ]; then
     fi
 fi
 log=$OUT/server.log
+rm -f "$log"   # never read the port of an earlier run
 "$DK" explore --port 0 >"$log" 2>&1 &
 pid=$!
 port=""
 for i in 1 2 3 4 5 6 7 8 9 10 11 12 13 14 15 16 17 18 19 20; do
-    port=$(sed -n 's/.*127\.0\.0\.1:\([0-9]*\)\/.*/\1/p' "$log" | head -1)
+    port=$(sed -n 's/.*127\.0\.0\.1:\([0-9]*\)\/.*/\1/p' "$log" 2>/dev/null | head -1)
     [ -n "$port" ] && break
     sleep 0.25
 done
