@@ -107,6 +107,10 @@ typedef struct dk_db {
     dk_crystal **crystals;          /* sorted by id */
     int nerrors;
     char **errors;                  /* one message per file that failed */
+    int nnotices;
+    char **notices;                 /* one message per name that two files
+                                       of a search path share: which wins
+                                       (dk_db_load_path, dk_db_add_file) */
 } dk_db;
 
 /*
@@ -151,6 +155,67 @@ dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
 
 /* Free @db and its crystals; NULL does nothing. */
 void dk_db_free(dk_db *db);
+
+/*
+ * dk_db_shipped_dir:
+ *
+ * The folder of the crystal database that ships with this build of the
+ * library, compiled in: the source tree's crystals/ for a build in the
+ * tree, PREFIX/share/deltak/crystals for an installed one (`make
+ * install PREFIX=...`).
+ *
+ * Returns: the folder, never NULL (it may not exist).
+ */
+const char *dk_db_shipped_dir(void);
+
+/*
+ * dk_db_load_path:
+ * @paths: a search path, highest precedence first: folders of *.yaml
+ *   crystal files (read as dk_db_load() does) and single crystal files;
+ *   NULL and empty entries are skipped
+ * @n: the number of entries in @paths
+ * @out: the database, to be freed with dk_db_free()
+ *
+ * Loads every entry and merges them so that each name (id or alias)
+ * belongs to one crystal: a crystal from an earlier entry wins.
+ * A later crystal whose id is a name of an earlier one is left out; a
+ * later crystal that only shares an alias keeps its other names and
+ * loses that alias. Each such case adds a line to (*out)->notices
+ * naming both files and which is used; a file with the same bytes as
+ * the one that wins (the same file listed twice, an unchanged copy) is
+ * left out silently. An entry that cannot be read, and every file that
+ * fails to load, is a line in (*out)->errors, and is skipped.
+ *
+ * Typical use: the user's folders first, then dk_db_shipped_dir(), so
+ * that a user's own files add to the shipped database and replace a
+ * shipped crystal of the same name.
+ *
+ * Returns: DK_OK (even with skipped entries or files); DK_EINVAL when
+ * @n is 0 or every entry is empty; DK_EIO when no entry could be read
+ * (the message names the first); DK_ENOMEM.
+ */
+dk_status dk_db_load_path(const char *const *paths, size_t n, dk_db **out,
+                          dk_error *err);
+
+/*
+ * dk_db_add_file:
+ * @db: a loaded database
+ * @path: one crystal file
+ * @added: if not NULL, gets the crystal read from @path
+ *
+ * Adds the crystal of @path with precedence over every crystal in @db:
+ * a crystal of @db with the same id (or whose id is one of the new
+ * crystal's names) is removed, one that only shares an alias loses that
+ * alias; each case adds a line to db->notices, as in dk_db_load_path().
+ * Pointers to removed crystals become invalid.
+ *
+ * Returns: DK_OK; the status of dk_crystal_load() (DK_EIO, DK_EPARSE,
+ * DK_EINVAL, DK_ENOMEM) with its message, @db unchanged; DK_ENOMEM
+ * part-way through the merge, @db valid but perhaps without crystals
+ * the new one would have replaced.
+ */
+dk_status dk_db_add_file(dk_db *db, const char *path,
+                         const dk_crystal **added, dk_error *err);
 
 /*
  * dk_db_find:

@@ -138,6 +138,15 @@ dk_status dk_var_parse(const char *name, dk_var *v, dk_error *err);
 const char *dk_var_name(dk_var v);
 const char *dk_var_unit(dk_var v);
 
+/*
+ * dk_var_check:
+ * Whether @value (sweep unit) is one a sweep of @v takes: temperatures
+ * −273.15 to 1000 °C, wavelengths 1 nm to 1 mm, periods 1 nm to 10 mm,
+ * angles ±360° (α below 45°), lengths up to 10 m.
+ * Returns: DK_OK or DK_EINVAL naming the variable and the limits.
+ */
+dk_status dk_var_check(dk_var v, double value, dk_error *err);
+
 /* 1 for the wavelength variables. */
 int dk_var_is_wavelength(dk_var v);
 

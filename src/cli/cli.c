@@ -2,12 +2,14 @@
  * cli.c - messages, warnings, database loading and buffered output for
  * the command files (see cli.h).
  */
+#include <ctype.h>
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 
 #include "cli.h"
 #include "deltak/constants.h"
@@ -46,14 +48,23 @@ cli_set_streams(FILE *out, FILE *err)
     out_mode = CLI_TEXT;
 }
 
+/* "error: MESSAGE" with every control character of the message shown
+ * as \xNN: messages quote what the user typed, and a terminal must not
+ * obey it. */
+static void
+print_error(const char *fmt, va_list ap)
+{
+    char msg[1024], esc[3072];
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    fprintf(cli_stderr(), "error: %s\n", dk_text_escape(msg, esc, sizeof esc));
+}
+
 int
 cli_error(const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", cli_stderr());
-    vfprintf(cli_stderr(), fmt, ap);
-    fputc('\n', cli_stderr());
+    print_error(fmt, ap);
     va_end(ap);
     return CLI_FAIL;
 }
@@ -70,9 +81,7 @@ cli_usage_error(const char *const usage[], const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", cli_stderr());
-    vfprintf(cli_stderr(), fmt, ap);
-    fputc('\n', cli_stderr());
+    print_error(fmt, ap);
     va_end(ap);
     cli_print_usage(cli_stderr(), usage);
     return CLI_USAGE;
@@ -197,37 +206,237 @@ cli_warnings_flush(void)
     dk_notes_clear(&notes);
 }
 
+/* Warn about the database's skipped files and shadowed names from
+ * index @from on. */
+static void
+warn_db(const dk_db *db, int errors_from, int notices_from)
+{
+    for (int i = errors_from; i < db->nerrors; i++)
+        cli_warn("%s (skipped)", db->errors[i]);
+    for (int i = notices_from; i < db->nnotices; i++)
+        cli_warn("%s", db->notices[i]);
+}
+
 int
 cli_load_db(dk_db **db)
 {
-    const char *dir = getenv("DELTAK_CRYSTALS");
-    if (!dir || !*dir)
-        dir = DK_CRYSTAL_DIR;
+    /* The search path: $DELTAK_CRYSTALS (colon-separated folders and
+     * files, first wins), then the shipped database. */
+    const char *env = getenv("DELTAK_CRYSTALS");
+    char *copy = strdup(env ? env : "");
+    size_t n = 1;
+    for (const char *p = env ? env : ""; *p; p++)
+        n += *p == ':';
+    const char **paths = malloc((n + 1) * sizeof *paths);
+    if (!copy || !paths) {
+        free(copy);
+        free(paths);
+        return cli_error("out of memory");
+    }
+    size_t k = 0;
+    char *sv = NULL;
+    for (char *t = strtok_r(copy, ":", &sv); t && k < n;
+         t = strtok_r(NULL, ":", &sv))
+        paths[k++] = t;
+    paths[k++] = dk_db_shipped_dir();
     dk_error err = {0};
-    if (dk_db_load(dir, db, &err))
+    dk_status st = dk_db_load_path(paths, k, db, &err);
+    free(paths);
+    free(copy);
+    if (st)
         return cli_error("%s", err.msg);
-    for (int i = 0; i < (*db)->nerrors; i++)
-        cli_warn("%s (file skipped)", (*db)->errors[i]);
+    warn_db(*db, 0, 0);
     return 0;
 }
 
-const dk_crystal *
-cli_find_crystal(const dk_db *db, const char *name)
+/* Whether --crystal names a file rather than a crystal: ids and aliases
+ * never contain '/' or end in .yaml. */
+static int
+names_a_file(const char *name)
 {
+    size_t n = strlen(name);
+    return strchr(name, '/') ||
+           (n > 5 && strcasecmp(name + n - 5, ".yaml") == 0) ||
+           (n > 4 && strcasecmp(name + n - 4, ".yml") == 0);
+}
+
+/* Edit distance ignoring ASCII case (99 beyond 64 characters). */
+static int
+distance_nocase(const char *a, const char *b)
+{
+    char la[65], lb[65];
+    size_t i, j;
+    for (i = 0; a[i] && i < 64; i++)
+        la[i] = (char)tolower((unsigned char)a[i]);
+    for (j = 0; b[j] && j < 64; j++)
+        lb[j] = (char)tolower((unsigned char)b[j]);
+    if (a[i] || b[j])
+        return 99;
+    la[i] = lb[j] = '\0';
+    return cli_edit_distance(la, lb);
+}
+
+/* How far a misspelling may be from a name and still be suggested:
+ * one edit in names of up to 3 characters, two up to 8, three beyond
+ * (common practice for "did you mean"). */
+static int
+near_enough(const char *typed, int d)
+{
+    size_t n = strlen(typed);
+    return d <= (n <= 3 ? 1 : n <= 8 ? 2 : 3);
+}
+
+/* The names nearest to @typed among @names, one per owner (@owner[i]
+ * is the thing names[i] belongs to; NULL: each name its own), at most
+ * CLI_SUGGEST_MAX: those at the smallest edit distance if near enough,
+ * else those that start with @typed (for a truncated name). The owners
+ * go to @out_owner when not NULL. Returns how many. */
+#define CLI_SUGGEST_MAX 4
+static int
+suggest(const char *typed, const char *const *names,
+        const char *const *owner, int n, const char *out[CLI_SUGGEST_MAX],
+        const char *out_owner[CLI_SUGGEST_MAX])
+{
+    int best = 99, k = 0;
+    size_t len = strlen(typed);
+    for (int i = 0; i < n; i++) {
+        int d = distance_nocase(typed, names[i]);
+        if (d < best)
+            best = d;
+    }
+    for (int pass = 0; pass < 2 && !k; pass++)
+        for (int i = 0; i < n && k < CLI_SUGGEST_MAX; i++) {
+            int hit = pass == 0
+                          ? near_enough(typed, best) &&
+                                distance_nocase(typed, names[i]) == best
+                          : len >= 2 && strncasecmp(names[i], typed, len) == 0;
+            const char *who = owner ? owner[i] : names[i];
+            for (int j = 0; j < k && hit; j++)
+                if ((owner ? out_owner[j] : out[j]) == who)
+                    hit = 0;
+            if (hit) {
+                out[k] = names[i];
+                if (owner)
+                    out_owner[k] = who;
+                k++;
+            }
+        }
+    return k;
+}
+
+/* "; did you mean 'A' or 'B'?" into @buf for the suggestions (@ids[i]
+ * in parentheses where it differs), or "" when there are none. */
+static const char *
+did_you_mean(const char *const *sugg, const char *const *ids, int k,
+             char *buf, size_t n)
+{
+    size_t used = 0;
+    buf[0] = '\0';
+    for (int i = 0; i < k && used < n; i++) {
+        int with_id = ids && ids[i] && strcasecmp(ids[i], sugg[i]) != 0;
+        used += (size_t)snprintf(buf + used, n - used, "%s'%s'%s%s%s",
+                                 i == 0       ? "; did you mean "
+                                 : i + 1 == k ? " or "
+                                              : ", ",
+                                 sugg[i], with_id ? " (" : "",
+                                 with_id ? ids[i] : "", with_id ? ")" : "");
+    }
+    if (k && used < n)
+        snprintf(buf + used, n - used, "?");
+    return buf;
+}
+
+/* Print @head, then the @n words of @list wrapped to 80 columns. */
+static void
+print_wrapped_list(FILE *f, const char *head, const char *const *list, int n)
+{
+    int col = fprintf(f, "%s", head);
+    for (int i = 0; i < n; i++) {
+        int w = (int)strlen(list[i]) + (i + 1 < n ? 1 : 0);
+        if (col + 1 + w > 79) {
+            fputs("\n ", f);
+            col = 1;
+        }
+        col += fprintf(f, " %s%s", list[i], i + 1 < n ? "," : "");
+    }
+    fputc('\n', f);
+}
+
+const dk_crystal *
+cli_find_crystal(dk_db *db, const char *name)
+{
+    char esc[200];
     if (!name) {
         cli_error("no crystal given: use --crystal NAME (see 'deltak "
                   "crystals' for the list)");
         return NULL;
     }
+    if (names_a_file(name)) {
+        /* A crystal file of the user's, for this command: it comes
+         * before every folder of the search path. */
+        const dk_crystal *c = NULL;
+        dk_error err = {0};
+        int from = db->nnotices;
+        if (dk_db_add_file(db, name, &c, &err)) {
+            cli_error("%s", err.msg);
+            return NULL;
+        }
+        warn_db(db, db->nerrors, from);
+        return c;
+    }
     const dk_crystal *c = dk_db_find(db, name);
     if (c)
         return c;
-    fprintf(cli_stderr(), "error: unknown crystal '%s'; known crystals:", name);
+    /* Every id and alias, and the id each belongs to. */
+    int total = 0;
     for (int i = 0; i < db->ncrystals; i++)
-        fprintf(cli_stderr(), "%s %s", i ? "," : "", db->crystals[i]->id);
-    fprintf(cli_stderr(), "\n(aliases such as BBO or PPLN work too; see 'deltak "
-                    "crystals')\n");
+        total += 1 + db->crystals[i]->naliases;
+    const char **names = malloc(sizeof(char *) * (size_t)(total + 1));
+    const char **owner = malloc(sizeof(char *) * (size_t)(total + 1));
+    const char **ids = malloc(sizeof(char *) * (size_t)(db->ncrystals + 1));
+    const char *sugg[CLI_SUGGEST_MAX], *sugg_id[CLI_SUGGEST_MAX];
+    int k = 0;
+    if (names && owner && ids) {
+        int m = 0;
+        for (int i = 0; i < db->ncrystals; i++) {
+            const dk_crystal *x = db->crystals[i];
+            ids[i] = x->id;
+            names[m] = x->id, owner[m++] = x->id;
+            for (int j = 0; j < x->naliases; j++)
+                names[m] = x->aliases[j], owner[m++] = x->id;
+        }
+        k = suggest(name, names, owner, m, sugg, sugg_id);
+    }
+    char hint[400];
+    fprintf(cli_stderr(), "error: unknown crystal '%s'%s\n",
+            cli_escape(name, esc, sizeof esc),
+            did_you_mean(sugg, sugg_id, k, hint, sizeof hint));
+    if (!k && ids)
+        print_wrapped_list(cli_stderr(), "known crystals:", ids,
+                           db->ncrystals);
+    fprintf(cli_stderr(), "('deltak crystals' lists every name, aliases such "
+                          "as BBO or PPLN too;\n --crystal also takes a "
+                          "crystal file, e.g. --crystal ./my-crystal.yaml)\n");
+    free(names);
+    free(owner);
+    free(ids);
     return NULL;
+}
+
+int
+cli_unknown_set(const dk_crystal *c, const char *name)
+{
+    char esc[200], hint[300];
+    const char *names[64], *sugg[CLI_SUGGEST_MAX];
+    int n = c->nsets < 64 ? c->nsets : 64;
+    for (int i = 0; i < n; i++)
+        names[i] = c->sets[i].name;
+    int k = suggest(name, names, NULL, n, sugg, NULL);
+    fprintf(cli_stderr(), "error: %s has no data set '%s'%s\n", c->id,
+            cli_escape(name, esc, sizeof esc),
+            did_you_mean(sugg, NULL, k, hint, sizeof hint));
+    print_wrapped_list(cli_stderr(), "its sets are:", names, n);
+    return CLI_FAIL;
 }
 
 const dk_dispersion_set *
@@ -238,11 +447,7 @@ cli_find_set(const dk_crystal *c, const char *name)
         cli_warn_index(s, 0, 0, 0);
         return s;
     }
-    fprintf(cli_stderr(), "error: %s has no data set '%s'; its sets are:", c->id,
-            name);
-    for (int i = 0; i < c->nsets; i++)
-        fprintf(cli_stderr(), "%s %s", i ? "," : "", c->sets[i].name);
-    fputc('\n', cli_stderr());
+    cli_unknown_set(c, name);
     return NULL;
 }
 
@@ -523,4 +728,28 @@ const char *
 cli_escape(const char *text, char *buf, size_t n)
 {
     return dk_text_escape(text, buf, n);
+}
+
+const char *
+cli_csv(const char *text, char *buf, size_t n)
+{
+    if (!strpbrk(text, ",\"\r\n")) {
+        snprintf(buf, n, "%s", text);
+        return buf;
+    }
+    /* RFC 4180: quote the field, double the quotes inside. */
+    size_t k = 0;
+    if (n < 3) {
+        buf[0] = '\0';
+        return buf;
+    }
+    buf[k++] = '"';
+    for (; *text && k + 3 < n; text++) {
+        if (*text == '"')
+            buf[k++] = '"';
+        buf[k++] = *text;
+    }
+    buf[k++] = '"';
+    buf[k] = '\0';
+    return buf;
 }

@@ -42,6 +42,10 @@ FILE *cli_stderr(void);
  * start with no notes, in text mode. */
 void cli_set_streams(FILE *out, FILE *err);
 
+/* A text field for CSV: as it is, or quoted (RFC 4180) when it holds a
+ * comma, quote or line break. Returns @buf. */
+const char *cli_csv(const char *text, char *buf, size_t n);
+
 /* Print "error: ..." on stderr; returns CLI_FAIL. */
 int cli_error(const char *fmt, ...)
 #if defined(__GNUC__)
@@ -124,14 +128,25 @@ void cli_warn_index(const dk_dispersion_set *set, unsigned flags,
                     double lambda_um, double temp_c);
 
 /*
- * Load the crystal database from $DELTAK_CRYSTALS or the built-in folder.
- * Files that fail to load become warnings. Returns 0, or CLI_FAIL after
- * printing the error.
+ * Load the crystal database: the folders and files of $DELTAK_CRYSTALS
+ * (colon-separated, the first wins), then the shipped folder
+ * (dk_db_shipped_dir). Skipped files and names that a user's file takes
+ * from another become warnings. Returns 0, or CLI_FAIL after printing
+ * the error.
  */
 int cli_load_db(dk_db **db);
 
-/* Find @name or print an error listing the known names; NULL if absent. */
-const dk_crystal *cli_find_crystal(const dk_db *db, const char *name);
+/*
+ * Find @name (an id or alias, or a path to a crystal file: containing
+ * '/' or ending in .yaml, loaded into @db ahead of everything else) or
+ * print an error with the nearest names ("did you mean"); NULL if
+ * absent.
+ */
+const dk_crystal *cli_find_crystal(dk_db *db, const char *name);
+
+/* Print "error: C has no data set 'X'; did you mean 'Y'?" and the list
+ * of its sets. Returns CLI_FAIL. */
+int cli_unknown_set(const dk_crystal *c, const char *name);
 
 /* Find a data set by name (NULL: the default) or print the known sets. */
 const dk_dispersion_set *cli_find_set(const dk_crystal *c, const char *name);

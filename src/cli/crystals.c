@@ -4,16 +4,26 @@
  */
 #include <getopt.h>
 #include <string.h>
+#include <strings.h>
 
 #include "cli.h"
 #include "options.h"
 #include "commands.h"
 
 static const char *const crystals_usage[] = {
-    "deltak crystals [--json] [<name>]",
+    "deltak crystals [--json] [<name> | <file.yaml>]",
+    "   or: deltak crystals --names [<name>]",
     "",
-    "  <name>    a crystal id or alias (case-insensitive): show it in full",
-    "  --json    machine-readable output",
+    "  <name>      a crystal id or alias (case-insensitive): show it in full",
+    "  <file.yaml> a crystal file of your own: check it and show it in full",
+    "  --json      machine-readable output",
+    "  --names     every crystal id and alias, one a line; with <name>, that",
+    "              crystal's data sets (for scripts and shell completion)",
+    "",
+    "The database is the shipped folder plus your own: DELTAK_CRYSTALS lists",
+    "folders and .yaml files (colon-separated) searched first, so a file of",
+    "yours adds a crystal or, with the same name, replaces the shipped one",
+    "(with a warning). Every command's --crystal also takes a file path.",
     NULL};
 
 static const char *
@@ -34,50 +44,120 @@ axis_name(int i)
     return i >= 0 && i < 3 ? n[i] : "-";
 }
 
-/* The comma-separated set names of @c into @buf. */
-static void
-set_names(const dk_crystal *c, char *buf, size_t n)
+/* Columns a piece of UTF-8 text takes (one per code point; the names
+ * in the database have no wide or combining characters). */
+static int
+text_width(const char *s, size_t len)
 {
-    buf[0] = '\0';
-    for (int j = 0; j < c->nsets; j++) {
-        strncat(buf, c->sets[j].name, n - strlen(buf) - 2);
-        if (j + 1 < c->nsets)
-            strncat(buf, ",", n - strlen(buf) - 1);
+    int w = 0;
+    for (size_t i = 0; i < len && s[i]; i++)
+        w += ((unsigned char)s[i] & 0xC0) != 0x80;
+    return w;
+}
+
+/* The list fits 80 columns: the table holds the crystal, its class and
+ * transparency, and in the last column its data sets and then its other
+ * names, each wrapped to that column. */
+#define LIST_WIDTH 80
+
+/* The most names one cell of the list shows (a file has at most 32
+ * aliases, src/data/crystal_load.h). */
+#define NAMES_MAX 64
+
+/* One wrapped cell: @lead, then @words joined by ", ", from column
+ * @indent (where the cursor is) to LIST_WIDTH; continuation lines are
+ * indented under the first word. */
+static void
+print_words(FILE *f, int indent, const char *lead, const char *const *words,
+            int n)
+{
+    int start = indent + text_width(lead, strlen(lead)), col = start;
+    fputs(lead, f);
+    for (int i = 0; i < n; i++) {
+        int w = text_width(words[i], strlen(words[i])) + (i + 1 < n);
+        if (i > 0 && col + 1 + w > LIST_WIDTH) {
+            fprintf(f, "\n%*s", start, "");
+            col = start;
+        } else if (i > 0) {
+            fputc(' ', f);
+            col++;
+        }
+        fprintf(f, "%s%s", words[i], i + 1 < n ? "," : "");
+        col += w;
     }
+    fputc('\n', f);
+}
+
+/* 1 when @c comes from the shipped folder, not from a user's file. */
+static int
+is_shipped(const dk_crystal *c)
+{
+    const char *dir = dk_db_shipped_dir();
+    size_t n = strlen(dir);
+    return strncmp(c->path, dir, n) == 0 && c->path[n] == '/';
 }
 
 static void
 print_list(FILE *f, const dk_db *db)
 {
-    int wid = 8, wsets = 9;
-    for (int i = 0; i < db->ncrystals; i++) {
-        char sets[256];
-        set_names(db->crystals[i], sets, sizeof sets);
-        if ((int)strlen(db->crystals[i]->id) > wid)
-            wid = (int)strlen(db->crystals[i]->id);
-        if ((int)strlen(sets) > wsets)
-            wsets = (int)strlen(sets);
-    }
-    fprintf(f, "%-*s  %-9s  %-*s  %-14s  %s\n", wid, "crystal", "class",
-            wsets, "data sets", "transparency", "aliases");
+    int wid = 7, wrange = 12, own = 0;
+    char range[32];
     for (int i = 0; i < db->ncrystals; i++) {
         const dk_crystal *c = db->crystals[i];
-        char sets[256], range[32], aliases[256] = "";
-        set_names(c, sets, sizeof sets);
-        for (int j = 0; j < c->naliases; j++) {
-            strncat(aliases, c->aliases[j],
-                    sizeof aliases - strlen(aliases) - 3);
-            if (j + 1 < c->naliases)
-                strncat(aliases, ", ", sizeof aliases - strlen(aliases) - 1);
-        }
+        int w = text_width(c->id, strlen(c->id)) + !is_shipped(c);
+        wid = w > wid ? w : wid;
+        w = snprintf(range, sizeof range, "%g-%g um", c->transparency_um[0],
+                     c->transparency_um[1]);
+        wrange = w > wrange ? w : wrange;
+    }
+    int indent = wid + 2 + 9 + 2 + wrange + 2;
+    fprintf(f, "%-*s  %-9s  %-*s  %s\n", wid, "crystal", "class", wrange,
+            "transparency", "data sets (default first); other names");
+    for (int i = 0; i < db->ncrystals; i++) {
+        const dk_crystal *c = db->crystals[i];
+        const char *words[NAMES_MAX];
+        int n = 0, user = !is_shipped(c);
+        own += user;
         snprintf(range, sizeof range, "%g-%g um", c->transparency_um[0],
                  c->transparency_um[1]);
-        fprintf(f, "%-*s  %-9s  %-*s  %-14s  %s\n", wid, c->id,
-                dk_optical_class_str(c->optical_class), wsets, sets, range,
-                aliases);
+        fprintf(f, "%s%s%*s  %-9s  %-*s  ", c->id, user ? "*" : "",
+                wid - text_width(c->id, strlen(c->id)) - user, "",
+                dk_optical_class_str(c->optical_class), wrange, range);
+        for (int j = 0; j < c->nsets && n < NAMES_MAX; j++)
+            words[n++] = c->sets[j].name;
+        print_words(f, indent, "", words, n);
+        n = 0;
+        for (int j = 0; j < c->naliases && n < NAMES_MAX; j++)
+            if (strcasecmp(c->aliases[j], c->id) != 0)
+                words[n++] = c->aliases[j];
+        if (n) {
+            fprintf(f, "%*s", indent, "");
+            print_words(f, indent, "also ", words, n);
+        }
     }
     fprintf(f, "\n%d crystals. 'deltak crystals NAME' shows one in full.\n",
             db->ncrystals);
+    if (own)
+        fprintf(f, "* from your own files (DELTAK_CRYSTALS or --crystal "
+                   "FILE), not the shipped\n  database (%s)\n",
+                dk_db_shipped_dir());
+}
+
+/* `--names`: every id and alias, or the data sets of @c. */
+static void
+print_names(FILE *f, const dk_db *db, const dk_crystal *c)
+{
+    if (c) {
+        for (int i = 0; i < c->nsets; i++)
+            fprintf(f, "%s\n", c->sets[i].name);
+        return;
+    }
+    for (int i = 0; i < db->ncrystals; i++) {
+        fprintf(f, "%s\n", db->crystals[i]->id);
+        for (int j = 0; j < db->crystals[i]->naliases; j++)
+            if (strcmp(db->crystals[i]->aliases[j], db->crystals[i]->id))
+                fprintf(f, "%s\n", db->crystals[i]->aliases[j]);
+    }
 }
 
 static void
@@ -197,6 +277,8 @@ crystal_json(const dk_crystal *c, int full)
     json_object *o = json_object_new_object();
     json_object_object_add(o, "crystal", json_object_new_string(c->id));
     json_object_object_add(o, "name", json_object_new_string(c->name));
+    json_object_object_add(o, "file", json_object_new_string(c->path));
+    json_object_object_add(o, "shipped", json_object_new_boolean(is_shipped(c)));
     json_object *al = json_object_new_array();
     for (int i = 0; i < c->naliases; i++)
         json_object_array_add(al, json_object_new_string(c->aliases[i]));
@@ -283,16 +365,23 @@ crystal_json(const dk_crystal *c, int full)
 int
 cmd_crystals(int argc, char **argv)
 {
+    enum { OPT_NAMES = 256 };
     static const struct option opts[] = {{"json", no_argument, NULL, 'j'},
+                                         {"names", no_argument, NULL, OPT_NAMES},
                                          {"help", no_argument, NULL, 'h'},
                                          {NULL, 0, NULL, 0}};
     cli_common cm = {0};
     const char *pos[1];
     int npos = 1, rc;
+    const char *names_flag = NULL;
+    cli_slots own = {OPT_NAMES, 1, &names_flag, opts, crystals_usage};
     if ((rc = cli_parse_options(argc, argv, opts, crystals_usage, &cm, NULL,
-                                NULL, NULL, NULL, pos, &npos)))
+                                NULL, cli_slot_option, &own, pos, &npos)))
         return rc == CLI_HELP ? 0 : rc;
     int json = cm.json;
+    if (json && names_flag)
+        return cli_usage_error(crystals_usage, "choose one of --json and "
+                                               "--names");
     dk_db *db = NULL;
     if (cli_load_db(&db))
         return CLI_FAIL;
@@ -307,7 +396,9 @@ cmd_crystals(int argc, char **argv)
         dk_db_free(db);
         return CLI_FAIL;
     }
-    if (json) {
+    if (names_flag) {
+        print_names(out.f, db, c);
+    } else if (json) {
         json_object *o;
         if (c) {
             o = crystal_json(c, 1);

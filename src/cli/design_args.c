@@ -162,8 +162,13 @@ cli_design_make(const dk_design_request *rq, dk_design *d, int solve)
         s = dk_design_solve(d, &err);
     if (s) {
         /* An inconsistent request is bad input (exit 2); no solution or a
-         * failed computation is exit 1. */
-        cli_error("%s", err.msg);
+         * failed computation is exit 1. An unknown data set gets the
+         * nearest names. */
+        if (rq->set_name && rq->crystal &&
+            !dk_crystal_find_set(rq->crystal, rq->set_name))
+            cli_unknown_set(rq->crystal, rq->set_name);
+        else
+            cli_error("%s", err.msg);
         return s == DK_EINVAL ? CLI_USAGE : CLI_FAIL;
     }
     cli_take_notes(&d->notes);

@@ -24,6 +24,12 @@ print_help(FILE *f)
         fprintf(f, "  %-10s %s\n", commands[i].name, commands[i].summary);
     fprintf(f, "\nWavelengths carry a unit: %s.\n"
                "Temperatures are in C (a K suffix is accepted).\n"
+               "\nCrystals: the shipped database plus your own files. "
+               "DELTAK_CRYSTALS lists\nfolders and .yaml files "
+               "(colon-separated) that are searched first: a file of\n"
+               "yours adds a crystal, or replaces the shipped one of the "
+               "same name (with a\nwarning). --crystal also takes a file, "
+               "e.g. --crystal ./my-crystal.yaml.\n"
                "\nLaser safety: these are Class 3B/4 systems and mid-infrared "
                "beams are invisible;\nlocal laser-safety rules and your laser "
                "safety officer take precedence.\n",

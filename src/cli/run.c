@@ -45,10 +45,11 @@
 #include "deltak/text.h"
 
 static const char *const run_usage[] = {
-    "deltak run <design-file> [--report <file.md>]",
+    "deltak run <design-file> [--report <file.md>] [--check]",
     "",
     "  <design-file>     'title:' and 'report:' lines, then one deltak "
     "command per line",
+    "  --check           only read and check the design file; run nothing",
     "  --report <file>   where to write the report (default: the file's "
     "'report:' line, else stdout); a",
     "                    JSON report is written beside it (same name, "
@@ -650,9 +651,10 @@ write_file(const char *dest, const char *path, const design_file *df,
 int
 cmd_run(int argc, char **argv)
 {
-    enum { O_REPORT = 500, O_END };
+    enum { O_REPORT = 500, O_CHECK, O_END };
     static const struct option opts[] = {
         {"report", required_argument, NULL, O_REPORT},
+        {"check", no_argument, NULL, O_CHECK},
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0}};
     const char *v[O_END - O_REPORT] = {0};
@@ -681,6 +683,11 @@ cmd_run(int argc, char **argv)
     int nc = 0;
     if ((rc = read_design(path, self, &df)))
         goto done;
+    if (v[1]) {
+        fprintf(cli_stdout(), "'%s': %d step%s, checked; nothing run\n",
+                path, df.nsteps, df.nsteps == 1 ? "" : "s");
+        goto done;
+    }
     char d[16];
     snprintf(d, sizeof d, "%d", depth ? atoi(depth) + 1 : 1);
     setenv("DELTAK_RUN_DEPTH", d, 1);

@@ -37,8 +37,11 @@ dk_db_free(dk_db *db)
         dk_crystal_free(db->crystals[i]);
     for (int i = 0; i < db->nerrors; i++)
         free(db->errors[i]);
+    for (int i = 0; i < db->nnotices; i++)
+        free(db->notices[i]);
     free(db->crystals);
     free(db->errors);
+    free(db->notices);
     free(db);
 }
 

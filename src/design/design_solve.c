@@ -185,6 +185,23 @@ solve_broadband(dk_design *d, dk_error *err)
         dk_angle_type_of(cands[c], t);
         if (d->type[0] && strcmp(t, d->type))
             continue;
+        /* The broadband geometry lies near a collinear solution of the
+         * same modes: without one, the α search would scan in vain. */
+        dk_angle_problem col = d->angle;
+        col.alpha_rad = 0;
+        dk_angle_solution tmp[DK_ANGLE_MAX_SOL];
+        int ncol = 0;
+        dk_angle_search only = {cands[c], d->rq.phi_rad, d->rq.plane};
+        if (dk_angle_solve(&col, &only, tmp, DK_ANGLE_MAX_SOL, &ncol, NULL) ||
+            ncol == 0) {
+            if (!last.msg[0])
+                dk_error_set(&last, DK_ENOROOT,
+                             "modes %s do not phase-match collinearly, so "
+                             "there is no broadband noncollinear geometry "
+                             "near them",
+                             cands[c]);
+            continue;
+        }
         for (int sign = 1; sign >= -1; sign -= 2) {
             dk_angle_problem pb = d->angle;
             double alpha, theta;
@@ -204,7 +221,13 @@ solve_broadband(dk_design *d, dk_error *err)
                 dk_angle_best_phi(&pb, &a);
             else if (dk_angle_describe(&pb, &a, NULL))
                 continue;
-            if (d->nsol < DK_DESIGN_MAX_SOL)
+            /* At degeneracy both sides give α = 0: one solution. */
+            int dup = 0;
+            for (int k = 0; k < d->nsol && !dup; k++)
+                dup = !strcmp(d->sol[k].pol, a.pol) &&
+                      fabs(d->sol[k].alpha_rad - alpha) < 1e-12 &&
+                      fabs(d->sol[k].theta_rad - a.theta_rad) < 1e-9;
+            if (!dup && d->nsol < DK_DESIGN_MAX_SOL)
                 angle_solution(d, &a, alpha, &d->sol[d->nsol++]);
         }
     }

@@ -156,6 +156,27 @@ expect sweep-bad-ext 1 'unknown figure format' -- sweep --crystal MgO:LN --pump 
 expect angle-curve 0 '^pol,phi_deg,theta_deg' -- angle --crystal KTP --fundamental 1064nm --curve --pol sff
 expect angle-spread 0 'spread over 3 data sets' -- angle --crystal BBO --fundamental 1064nm --type I --all-sets
 
+# Numbers and options under careless and hostile input (issue 13).
+expect order-wrap 2 'from 1 to 99' -- period --crystal MgO:LN --fundamental 1064nm --order 4294967297
+expect length-overflow 2 'length' -- tolerance --crystal MgO:LN --fundamental 1064nm --length 1e308m
+expect phi-empty 2 "phi '' must be" -- angle --crystal BBO --fundamental 1064nm --phi ''
+expect alpha-nan 2 'noncollinear' -- angle --crystal BBO --pump 400nm --signal 600nm --noncollinear nan
+expect hex-wavelength 2 'wavelength' -- index --crystal BBO --wavelength 0x1p0um
+expect repeated-option 2 'given twice' -- period --crystal MgO:LN --fundamental 1064nm --temp 20 --temp 30
+expect isotropic-pol 2 'polarisation letters do not apply' -- period --crystal GaAs --fundamental 4um --pol zzz
+expect unphysical-index 1 'which no transparent crystal has' -- index --crystal MgO:LN --wavelength 1064nm --temp 100000
+expect hot-design 2 'above 1000 C' -- period --crystal MgO:LN --fundamental 1064nm --temp 100000
+expect huge-temp-range 2 'temperature range' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --temp-range -200:1e6
+expect sweep-no-solution 1 'no point of the sweep has a solution' -- sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.36um:0.38um:5 --solve theta
+no_stdout sweep-no-solution-quiet sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.36um:0.38um:5 --solve theta
+expect sweep-huge-range 2 'outside what a sweep takes' -- sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=20:1e308:5 --solve period
+expect broadband-degenerate 0 'o o e +- +29\.2[0-9]* +90\.000 +1\.9' -- angle --crystal BBO --pump 400nm --signal 800nm --broadband
+expect exact-bound 1 '0\.3499999 um is outside the transparency range 0\.35-5 um' -- index --crystal MgO:LN --wavelength 0.3499999um
+expect no-pm-exit 1 'does not phase-match' -- angle --crystal BBO --fundamental 400nm --type I
+"$DK" index --crystal "$(printf 'BB\033[2JO')" --wavelength 1um 2>"$tmp/err" >/dev/null
+if grep -q 'BB\\x1b\[2JO' "$tmp/err" && ! grep -q "$(printf '\033')" "$tmp/err"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: control-chars-escaped"; fi
+
 # The range policy in every command: an answer outside the data set's
 # fitted range is flagged naming the wave, in text, JSON and CSV.
 # MgO:LN Gayer2008 is fitted over 0.5-4 um, so a 4.5 um idler is outside;
@@ -257,6 +278,19 @@ printf 'report: out/p.md\nsweep --crystal MgO:LN --pump 1064nm --vary period=28u
 expect run-figure 0 'ran 1 steps' -- run "$tmp/proj/p.dk"
 if [ -s "$tmp/proj/out/t.svg" ] && grep -q '(t.svg)' "$tmp/proj/out/p.md"; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-figure-beside-report"; fi
+# A killed run leaves no step running and no temporary file behind.
+mkdir -p "$tmp/slow"
+printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --plot slow.svg\n' > "$tmp/slow/s.dk"
+"$DK" run "$tmp/slow/s.dk" >/dev/null 2>&1 &
+runpid=$!
+sleep 1
+kill -TERM $runpid 2>/dev/null
+wait $runpid 2>/dev/null
+sleep 0.5
+if ! pgrep -f "$tmp/slow/slow.svg" >/dev/null && [ -z "$(ls -A "$tmp/slow" | grep -v '^s.dk$')" ]; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-killed-cleanly"; ls -A "$tmp/slow"; pkill -f "$tmp/slow/slow.svg"; fi
+expect run-check 0 '2 steps, checked; nothing run' -- run "$tmp/ok.dk" --check
+
 # Write errors on standard output are failures, not silent successes.
 if [ -w /dev/full ]; then
     for c in --version --help "run $tmp/ok.dk" "crystals"; do

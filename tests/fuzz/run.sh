@@ -17,6 +17,7 @@ for t in $TARGETS; do
     if [ -z "$(ls -A "$corpus")" ]; then
         case $t in
         units) cp "$here"/seeds/units/* "$corpus"/ ;;
+        design|command) cp "$here"/seeds/$t/* "$corpus"/ ;;
         *) cp crystals/*.yaml tests/data/*/*.yaml "$corpus"/ ;;
         esac
     fi
