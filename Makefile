@@ -7,7 +7,9 @@
 
 VERSION := 0.1.0
 CC      ?= gcc
-PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3 libmicrohttpd
+PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3
+# The program alone (deltak explore) also serves HTTP; the library does not.
+EXPLORE_PKGS := libmicrohttpd
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
 # `make V=1` shows the full compiler lines.
@@ -15,6 +17,8 @@ Q := $(if $(V),,@)
 
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
 PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null)
+EXPLORE_CFLAGS = $(shell pkg-config --cflags $(EXPLORE_PKGS) 2>/dev/null)
+EXPLORE_LIBS   = $(shell pkg-config --libs $(EXPLORE_PKGS) 2>/dev/null)
 
 # Warnings are errors in `make check` and CI (WERROR=-Werror), not in a
 # user's plain `make`, where a newer compiler's new warning must not stop
@@ -29,13 +33,18 @@ LDLIBS_ALL = $(PKG_LIBS) -lm
 
 # The commands are part of the library too (deltak/command.h); only
 # main.c is the program's own.
-LIB_SRC := $(filter-out src/cli/main.c,$(wildcard src/*/*.c))
-CLI_SRC := src/cli/main.c
-# The page of `deltak explore` (web/) is compiled in (explore_assets.c).
+# `deltak explore` (src/cli/explore.c, src/explore/) is the program's
+# only: the library's command table reaches it through a hook that main.c
+# sets, so that libdeltak needs no HTTP library.
+LIB_SRC := $(filter-out src/cli/main.c src/cli/explore.c src/explore/%,$(wildcard src/*/*.c))
+CLI_SRC := src/cli/main.c src/cli/explore.c
+# The page (web/) is compiled in (explore_assets.c, generated).
 WEB_FILES := web/index.html web/explore.css web/explore.js
 ASSETS_C := $(BUILD)/gen/explore_assets.c
-LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o) $(BUILD)/gen/explore_assets.o
-CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
+EXPLORE_OBJ := $(patsubst %.c,$(BUILD)/%.o,$(wildcard src/explore/*.c)) \
+               $(BUILD)/gen/explore_assets.o
+LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
+CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o) $(EXPLORE_OBJ)
 TEST_SRC := $(wildcard tests/test_*.c tests/explore/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
@@ -88,7 +97,19 @@ $(BUILD)/libdeltak.a: $(LIB_OBJ)
 
 $(BUILD)/deltak: $(CLI_OBJ) $(BUILD)/libdeltak.a
 	@echo "  LINK    $@"
-	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL)
+	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL) \
+	    $(EXPLORE_LIBS)
+
+$(EXPLORE_OBJ): ALL_CFLAGS += $(EXPLORE_CFLAGS)
+
+# The explore test links the server's objects beside the library.
+$(BUILD)/tests/explore/test_explore: tests/explore/test_explore.c $(EXPLORE_OBJ) \
+        $(BUILD)/libdeltak.a tests/testutil.h
+	@mkdir -p $(dir $@)
+	@echo "  TEST    $@"
+	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $< $(EXPLORE_OBJ) $(BUILD)/libdeltak.a \
+	    $(LDLIBS_ALL) $(EXPLORE_LIBS) $(shell pkg-config --libs cmocka)
+	@$(LENIENT_MARK)
 
 $(BUILD)/tests/%: tests/%.c $(BUILD)/libdeltak.a tests/testutil.h
 	@mkdir -p $(dir $@)
@@ -307,7 +328,8 @@ $(INST)/$(SOFILE): $(INST_LIB_OBJ) $(BUILD)/libdeltak.map
 # to PREFIX/lib needed); C programs and Python use libdeltak.so.
 $(INST)/deltak: $(CLI_OBJ) $(INST)/libdeltak.a
 	@echo "  LINK    $@"
-	$(Q)$(CC) $(ALL_CFLAGS) $(LDFLAGS) -o $@ $(CLI_OBJ) $(INST)/libdeltak.a $(LDLIBS_ALL)
+	$(Q)$(CC) $(ALL_CFLAGS) $(LDFLAGS) -o $@ $(CLI_OBJ) $(INST)/libdeltak.a $(LDLIBS_ALL) \
+	    $(EXPLORE_LIBS)
 
 $(INST)/deltak.pc: deltak.pc.in $(INST)/dirs.stamp
 	@sed -e 's|@PREFIX@|$(PREFIX)|' -e 's|@LIBDIR@|$(LIBDIR)|' \
