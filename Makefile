@@ -8,6 +8,8 @@
 VERSION := 0.1.0
 CC      ?= gcc
 PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3
+# The program alone (deltak explore) also serves HTTP; the library does not.
+EXPLORE_PKGS := libmicrohttpd
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
 # `make V=1` shows the full compiler lines.
@@ -15,6 +17,8 @@ Q := $(if $(V),,@)
 
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
 PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null)
+EXPLORE_CFLAGS = $(shell pkg-config --cflags $(EXPLORE_PKGS) 2>/dev/null)
+EXPLORE_LIBS   = $(shell pkg-config --libs $(EXPLORE_PKGS) 2>/dev/null)
 
 # Warnings are errors in `make check` and CI (WERROR=-Werror), not in a
 # user's plain `make`, where a newer compiler's new warning must not stop
@@ -29,15 +33,24 @@ LDLIBS_ALL = $(PKG_LIBS) -lm
 
 # The commands are part of the library too (deltak/command.h); only
 # main.c is the program's own.
-LIB_SRC := $(filter-out src/cli/main.c,$(wildcard src/*/*.c))
-CLI_SRC := src/cli/main.c
+# `deltak explore` (src/cli/explore.c, src/explore/) is the program's
+# only: the library's command table reaches it through a hook that main.c
+# sets, so that libdeltak needs no HTTP library.
+LIB_SRC := $(filter-out src/cli/main.c src/cli/explore.c src/explore/%,$(wildcard src/*/*.c))
+CLI_SRC := src/cli/main.c src/cli/explore.c
+# The page (web/) is compiled in (explore_assets.c, generated).
+WEB_FILES := web/index.html web/explore.css web/explore.js
+ASSETS_C := $(BUILD)/gen/explore_assets.c
+EXPLORE_OBJ := $(patsubst %.c,$(BUILD)/%.o,$(wildcard src/explore/*.c)) \
+               $(BUILD)/gen/explore_assets.o
 LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
-CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
-TEST_SRC := $(wildcard tests/test_*.c)
+CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o) $(EXPLORE_OBJ)
+TEST_SRC := $(wildcard tests/test_*.c tests/explore/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 
 .PHONY: all deps check unit cli-tests asan asan-cli demo bench plots fuzz clean help \
-        install uninstall python-tests package-tests install-tests strict-prep
+        install uninstall python-tests package-tests install-tests strict-prep \
+        explore-tests explore-load explore-asan
 
 all: $(BUILD)/deltak
 
@@ -49,6 +62,7 @@ help:
 	@echo "make uninstall  remove what make install installed"
 	@echo "make demo       run the demo scenarios on the shipped database"
 	@echo "make bench      measure speed (benchmarks never run in check)"
+	@echo "make explore-load  load-test the page's server on loopback (needs wrk)"
 	@echo "make plots      regenerate the figures in plots/"
 	@echo "make fuzz       fuzz parsers and loaders (needs clang; FUZZ_RUNS=1000000)"
 
@@ -66,6 +80,16 @@ $(BUILD)/%.o: %.c | $(DEPCHECK)
 	$(Q)$(CC) $(ALL_CFLAGS) -c $< -o $@
 	@$(LENIENT_MARK)
 
+$(ASSETS_C): $(WEB_FILES) src/explore/embed_assets.sh
+	@mkdir -p $(dir $@)
+	@echo "  EMBED   $@"
+	$(Q)sh src/explore/embed_assets.sh $@ $(WEB_FILES)
+
+$(BUILD)/gen/explore_assets.o: $(ASSETS_C) src/explore/explore.h | $(DEPCHECK)
+	@echo "  CC      $<"
+	$(Q)$(CC) $(ALL_CFLAGS) -c $< -o $@
+	@$(LENIENT_MARK)
+
 $(BUILD)/libdeltak.a: $(LIB_OBJ)
 	@rm -f $@
 	@echo "  AR      $@"
@@ -73,7 +97,19 @@ $(BUILD)/libdeltak.a: $(LIB_OBJ)
 
 $(BUILD)/deltak: $(CLI_OBJ) $(BUILD)/libdeltak.a
 	@echo "  LINK    $@"
-	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL)
+	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $(CLI_OBJ) $(BUILD)/libdeltak.a $(LDLIBS_ALL) \
+	    $(EXPLORE_LIBS)
+
+$(EXPLORE_OBJ): ALL_CFLAGS += $(EXPLORE_CFLAGS)
+
+# The explore test links the server's objects beside the library.
+$(BUILD)/tests/explore/test_explore: tests/explore/test_explore.c $(EXPLORE_OBJ) \
+        $(BUILD)/libdeltak.a tests/testutil.h
+	@mkdir -p $(dir $@)
+	@echo "  TEST    $@"
+	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $< $(EXPLORE_OBJ) $(BUILD)/libdeltak.a \
+	    $(LDLIBS_ALL) $(EXPLORE_LIBS) $(shell pkg-config --libs cmocka)
+	@$(LENIENT_MARK)
 
 $(BUILD)/tests/%: tests/%.c $(BUILD)/libdeltak.a tests/testutil.h
 	@mkdir -p $(dir $@)
@@ -89,6 +125,20 @@ unit: $(TEST_BIN)
 
 cli-tests: $(BUILD)/deltak
 	@sh tests/cli/run.sh $(BUILD)/deltak
+
+# `deltak explore` over HTTP: the API against the command line, bad
+# requests, concurrency, deadline (tests/explore/api.py); then the page in
+# headless Chromium when chromium and node are there (tests/explore/
+# browser.sh; screenshots in build/explore/). Prints "explore: ..." and
+# "browser: ..." lines.
+explore-tests: $(BUILD)/deltak
+	@python3 tests/explore/api.py $(BUILD)/deltak
+	@sh tests/explore/browser.sh $(BUILD)/deltak $(BUILD)/explore
+
+# Load on loopback with wrk: requests per second and latency percentiles
+# of a period query and a tuning-curve SVG (measures; not in check).
+explore-load: $(BUILD)/deltak
+	@sh tests/explore/load.sh $(BUILD)/deltak $(or $(LOAD_SECONDS),10) $(or $(LOAD_CONNECTIONS),4)
 
 # The unit tests once more, built with AddressSanitizer and UBSan.
 asan: | $(DEPCHECK)
@@ -106,6 +156,15 @@ asan-cli: | $(DEPCHECK)
 	@LSAN_OPTIONS=suppressions=$(abspath tests/lsan.supp) \
 	    sh tests/cli/run.sh $(BUILD)/asan/deltak > $(BUILD)/asan/cli.log; \
 	    rc=$$?; sed 's/^cli:/cli-asan:/' $(BUILD)/asan/cli.log; exit $$rc
+
+# The explore server's HTTP tests once more against the sanitized program.
+explore-asan: | $(DEPCHECK)
+	@$(MAKE) --no-print-directory BUILD=$(BUILD)/asan \
+	    CFLAGS="-O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=all" \
+	    DEPCHECK=$(DEPCHECK) $(BUILD)/asan/deltak
+	@LSAN_OPTIONS=suppressions=$(abspath tests/lsan.supp) \
+	    python3 tests/explore/api.py $(BUILD)/asan/deltak > $(BUILD)/asan/explore.log; \
+	    rc=$$?; sed 's/^explore:/explore-asan:/' $(BUILD)/asan/explore.log; exit $$rc
 
 # Installs what is missing first, rebuilds whatever was built without
 # -Werror, then runs everything with -Werror.
@@ -269,7 +328,8 @@ $(INST)/$(SOFILE): $(INST_LIB_OBJ) $(BUILD)/libdeltak.map
 # to PREFIX/lib needed); C programs and Python use libdeltak.so.
 $(INST)/deltak: $(CLI_OBJ) $(INST)/libdeltak.a
 	@echo "  LINK    $@"
-	$(Q)$(CC) $(ALL_CFLAGS) $(LDFLAGS) -o $@ $(CLI_OBJ) $(INST)/libdeltak.a $(LDLIBS_ALL)
+	$(Q)$(CC) $(ALL_CFLAGS) $(LDFLAGS) -o $@ $(CLI_OBJ) $(INST)/libdeltak.a $(LDLIBS_ALL) \
+	    $(EXPLORE_LIBS)
 
 $(INST)/deltak.pc: deltak.pc.in $(INST)/dirs.stamp
 	@sed -e 's|@PREFIX@|$(PREFIX)|' -e 's|@LIBDIR@|$(LIBDIR)|' \

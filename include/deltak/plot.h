@@ -56,6 +56,7 @@
 #define DK_PLOT_H
 
 #include <stddef.h>
+#include <stdio.h>
 
 #include "deltak/status.h"
 
@@ -446,6 +447,23 @@ dk_status dk_plot_set_png_dpi(dk_plot *plot, double dpi, dk_error *err);
  */
 dk_status dk_plot_write(const dk_plot *plot, const char *path,
                         dk_error *err);
+
+/*
+ * dk_plot_write_stream:
+ * Draw the figure as dk_plot_write() would, but into the open stream
+ * @stream (e.g. a memory stream, or a command's standard output) instead
+ * of a file: the same bytes as the file of that format. Nothing is
+ * written when the figure fails before drawing (bad figure, unknown
+ * format); after a write error the stream may hold part of the figure,
+ * so write into a buffer that can be discarded when that matters.
+ * @format: "pdf", "svg" or "png" (case-insensitive)
+ *
+ * Returns: DK_OK; DK_EINVAL (NULL stream, unknown format, or as for
+ * dk_plot_write()); DK_EDOM; DK_EIO when the stream refuses a write;
+ * DK_ENOMEM.
+ */
+dk_status dk_plot_write_stream(const dk_plot *plot, FILE *stream,
+                               const char *format, dk_error *err);
 
 /*
  * dk_plot_data_to_pixel:

@@ -11,6 +11,20 @@
 #include "commands.h"
 #include "deltak/command.h"
 
+int (*cli_explore_fn)(int argc, char **argv);
+
+/* `deltak explore` is the program's own (src/cli/explore.c and
+ * src/explore/, with libmicrohttpd), so that the library needs no HTTP
+ * server: main.c hands it over through cli_explore_fn. */
+static int
+explore_entry(int argc, char **argv)
+{
+    if (!cli_explore_fn)
+        return cli_error("explore is served by the deltak program, not by "
+                         "the library");
+    return cli_explore_fn(argc, argv);
+}
+
 /* Sorted by name. in_process: callable through dk_command_run. */
 const cli_cmd cli_commands[] = {
     {"angle", cmd_angle, 1,
@@ -19,6 +33,8 @@ const cli_cmd cli_commands[] = {
      "multi-grating and fan-out poling layouts covering a target range"},
     {"crystals", cmd_crystals, 1,
      "list the crystal database, or show one crystal's data and sources"},
+    {"explore", explore_entry, 0,
+     "a local page on 127.0.0.1: move sliders, watch the design follow"},
     {"gain", cmd_gain, 1,
      "conversion efficiency, parametric gain and bandwidth, focusing"},
     {"index", cmd_index, 1,

@@ -17,6 +17,10 @@ typedef struct cli_cmd {
 extern const cli_cmd cli_commands[];
 extern const size_t cli_ncommands;
 
+/* The `explore` command: set by the program (main.c) to cmd_explore,
+ * which is not part of the library; NULL in the library alone. */
+extern int (*cli_explore_fn)(int argc, char **argv);
+
 /* The command named @name, or NULL. */
 const cli_cmd *cli_find_command(const char *name);
 

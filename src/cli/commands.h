@@ -17,6 +17,8 @@
 int cmd_angle(int argc, char **argv);
 int cmd_chip(int argc, char **argv);
 int cmd_crystals(int argc, char **argv);
+/* The program's own (src/cli/explore.c, not in the library). */
+int cmd_explore(int argc, char **argv);
 int cmd_gain(int argc, char **argv);
 int cmd_index(int argc, char **argv);
 int cmd_period(int argc, char **argv);

@@ -108,6 +108,11 @@ cmd_gain(int argc, char **argv)
     if (cli_plot_parse(&pa, gain_usage))
         return CLI_USAGE;
     const char *plot = cli_plot_path(&pa);
+    if (cli_plot_stdout_format(&pa))
+        return cli_usage_error(gain_usage, "--plot %s (standard output) is "
+                                           "for sweep and tolerance; give "
+                                           "gain a file name",
+                               plot);
     if (shg && (spectrum || plot || seed_s))
         return cli_usage_error(gain_usage, "--spectrum, --plot and --seed "
                                            "are for three-wave mixing, not "

@@ -7,6 +7,7 @@
 
 #include "cli.h"
 #include "command_table.h"
+#include "commands.h"
 
 #define NCOMMANDS cli_ncommands
 #define commands cli_commands
@@ -66,6 +67,7 @@ closest(const char *name)
 int
 main(int argc, char **argv)
 {
+    cli_explore_fn = cmd_explore;   /* the program's own command */
     if (argc < 2) {
         print_help(stderr);
         return CLI_USAGE;

@@ -4,6 +4,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
+#include <strings.h>
 
 #include "cli.h"
 #include "plot_args.h"
@@ -30,6 +31,31 @@ const char *
 cli_plot_path(const cli_plot_args *a)
 {
     return T(OPT_PLOT);
+}
+
+const char *
+cli_plot_stdout_format(const cli_plot_args *a)
+{
+    const char *p = T(OPT_PLOT);
+    if (!p || p[0] != '-' || p[1] != '.')
+        return NULL;
+    static const char *const formats[] = {"svg", "pdf", "png"};
+    for (size_t i = 0; i < sizeof formats / sizeof formats[0]; i++)
+        if (strcasecmp(p + 2, formats[i]) == 0)
+            return formats[i];
+    return NULL;
+}
+
+dk_status
+cli_plot_write(const cli_plot_args *a, const dk_plot *fig, FILE *out,
+               dk_error *err)
+{
+    const char *format = cli_plot_stdout_format(a);
+    if (!format)
+        return dk_plot_write(fig, T(OPT_PLOT), err);
+    /* Notes go to stderr, not after the figure. */
+    cli_set_output_mode(CLI_CSV);
+    return dk_plot_write_stream(fig, out, format, err);
 }
 
 static int

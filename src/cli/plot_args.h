@@ -52,6 +52,24 @@ int cli_plot_option(int ch, const char *arg, cli_plot_args *a,
 /* The file to draw into, or NULL. */
 const char *cli_plot_path(const cli_plot_args *a);
 
+/*
+ * `--plot -.svg` (or -.pdf, -.png): the figure goes to the command's
+ * standard output instead of a file, so that it can be piped and so that
+ * in-process callers (deltak/command.h: the page of `deltak explore`) get
+ * it in memory. The command then prints nothing else on standard output
+ * (its notes go to standard error, as with --csv).
+ */
+
+/* The format ("svg", "pdf", "png") when --plot names standard output,
+ * else NULL. */
+const char *cli_plot_stdout_format(const cli_plot_args *a);
+
+/* Write @fig where --plot says: into the file, or, for -.FMT, into @out
+ * (the command's output buffer, committed to standard output on
+ * success). Returns DK_OK or the plot engine's error. */
+dk_status cli_plot_write(const cli_plot_args *a, const dk_plot *fig,
+                         FILE *out, dk_error *err);
+
 /* Check and read the options; options other than --plot without --plot
  * are refused. Returns 0 or CLI_USAGE after printing. */
 int cli_plot_parse(cli_plot_args *a, const char *const usage[]);

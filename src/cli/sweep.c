@@ -515,6 +515,11 @@ cmd_sweep(int argc, char **argv)
     if (map && cm.json)
         return cli_usage_error(sweep_usage, "a map is written as --csv or "
                                             "--plot");
+    if (cli_plot_stdout_format(&pa) && (cm.csv || cm.json))
+        return cli_usage_error(sweep_usage, "--plot %s puts the figure on "
+                                            "standard output; drop --csv "
+                                            "and --json",
+                               plot);
     int angular = sp.x == DK_VAR_THETA || sp.x == DK_VAR_PHI ||
                   sp.x == DK_VAR_ALPHA ||
                   (family && (sp.family == DK_VAR_THETA ||
@@ -576,13 +581,13 @@ cmd_sweep(int argc, char **argv)
         if (!ps && dk_var_is_wavelength(sp.x))
             ps = transparency_regions(fig, DK_PLOT_X_AXIS, d->crystal, &err);
         if (!ps)
-            ps = dk_plot_write(fig, plot, &err);
+            ps = cli_plot_write(&pa, fig, out.f, &err);
         if (ps) {
             cli_error("%s", err.msg);
             cli_out_discard(&out);
             goto done;
         }
-        if (!cm.csv && !cm.json)
+        if (!cm.csv && !cm.json && !cli_plot_stdout_format(&pa))
             fprintf(out.f, "wrote %s\n", plot);
     }
     rc = cli_out_commit(&out);

@@ -12,6 +12,7 @@
 #include "options.h"
 #include "commands.h"
 #include "design_args.h"
+#include "plot_args.h"
 #include "deltak/bandwidth.h"
 #include "deltak/plot.h"
 #include "deltak/tolerance.h"
@@ -139,11 +140,12 @@ print_curve(FILE *f, dk_design *d, const item *it,
     if (!s)
         s = dk_plot_set_yrange(fig, 0, 1.08, &err);
     if (!s)
-        s = dk_plot_write(fig, plot, &err);
+        s = cli_plot_write(pa, fig, f, &err);
     dk_plot_free(fig);
     if (s)
         return cli_error("%s", err.msg);
-    fprintf(f, "wrote %s\n", plot);
+    if (!cli_plot_stdout_format(pa))
+        fprintf(f, "wrote %s\n", plot);
     return 0;
 }
 

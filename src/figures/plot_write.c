@@ -22,6 +22,8 @@
  * width_mm/25.4·dpi pixels wide, with the page scaled by dpi/72, and is
  * built in memory too so that its resolution can be recorded in a pHYs
  * chunk (plot_png.c), which cairo does not write.
+ * dk_plot_write_stream() draws the same bytes into a caller's open stream
+ * (a memory buffer, a command's standard output), with no file at all.
  *
  * References:
  *   IEEE Std 1003.1-2017 (POSIX), rename(): atomic replacement of the
@@ -324,6 +326,38 @@ dk_plot_write(const dk_plot *p, const char *path, dk_error *err)
         return st;
     st = write_layout(p, &L, f, path, err);
     plot_layout_release(&L);
+    return st;
+}
+
+dk_status
+dk_plot_write_stream(const dk_plot *p, FILE *stream, const char *format,
+                     dk_error *err)
+{
+    static const struct {
+        const char *name;
+        fmt f;
+    } formats[] = {{"pdf", FMT_PDF}, {"svg", FMT_SVG}, {"png", FMT_PNG}};
+    if (!stream)
+        return dk_error_set(err, DK_EINVAL, "no stream to write the figure "
+                                            "into");
+    size_t i = 0;
+    while (format && i < sizeof formats / sizeof formats[0] &&
+           strcasecmp(format, formats[i].name) != 0)
+        i++;
+    if (!format || i == sizeof formats / sizeof formats[0])
+        return dk_error_set(err, DK_EINVAL,
+                            "unknown figure format '%s': use pdf, svg or png",
+                            format ? format : "(null)");
+    plot_layout L;
+    dk_status st = plot_layout_compute(p, &L, err);
+    if (st)
+        return st;
+    sink s = {stream, 0};
+    st = render(p, &L, formats[i].f, &s, "the figure", err);
+    plot_layout_release(&L);
+    if (!st && fflush(stream) != 0)
+        st = dk_error_set(err, DK_EIO, "cannot write the figure: %s",
+                          strerror(errno ? errno : EIO));
     return st;
 }
 

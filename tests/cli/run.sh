@@ -200,6 +200,21 @@ expect sweep-csv 0 '^period_um,idler_um' -- sweep --crystal MgO:LN --pump 1064nm
 expect sweep-family 0 '^period_um,temp_C,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --family temp=30,100 --csv
 expect sweep-map 0 '^pump_um,temp_C,sinc2' -- sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:5 --map temp=20:200:5 --length 20mm --csv
 expect sweep-theta 0 '^fundamental_um,theta_deg' -- sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.8um:1.2um:5 --solve theta --csv
+# Figures on standard output (--plot -.svg), as `deltak explore` uses them.
+expect plot-stdout-svg 0 '^<\?xml' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot -.svg
+no_stdout plot-stdout-not-with-csv sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot -.svg --csv
+expect plot-stdout-not-with-csv 2 'drop --csv and --json' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot -.svg --csv
+expect plot-stdout-tolerance 0 '^%PDF-' -- tolerance --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --length 20mm --curve temperature --plot -.pdf
+expect plot-stdout-not-gain 2 'give gain a file name' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 1GW/cm2 --plot -.svg
+"$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot -.png >"$tmp/fig.png" 2>"$tmp/err"
+"$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot "$tmp/file.png" >/dev/null 2>&1
+if cmp -s "$tmp/fig.png" "$tmp/file.png" && ! grep -q assumed "$tmp/fig.png" && grep -q '^note: ' "$tmp/err"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: plot-stdout-same-bytes-as-file"; fi
+rm -f "$tmp/fig.png" "$tmp/file.png"
+expect explore-help 0 'deltak explore \[--port' -- explore --help
+expect explore-bad-port 2 '--port' -- explore --port 70000
+expect explore-bad-deadline 2 '--deadline' -- explore --deadline 0
+expect explore-stray-argument 2 "unexpected argument 'now'" -- explore now
 expect sweep-deff 0 '^phi_deg,deff_pm_per_V' -- sweep --crystal BBO --fundamental 1064nm --type I --vary phi=0:180:7 --solve deff --csv
 expect sweep-gvm 0 'gvm_signal_idler' -- sweep --crystal BBO --pump 800nm --signal 1300nm --type I --vary signal=1.1um:1.6um:6 --solve gvm --csv
 expect sweep-bad-var 2 "unknown variable 'colour'" -- sweep --crystal MgO:LN --pump 1064nm --vary colour=1:2 --solve idler
