@@ -17,7 +17,16 @@ PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null)
 
 WARN     := -Wall -Wextra -Werror -Wshadow -Wstrict-prototypes -Wformat=2
 CFLAGS   ?= -O2 -g
-ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) -Iinclude -Isrc \
+# Maps and families run on all cores with OpenMP (GCC's libgomp); the hot
+# kernels are vectorised with `omp simd`. `make OPENMP=-fopenmp-simd`
+# builds a single-threaded library with the same results. The library
+# never reads errno after a math function nor enables floating-point traps
+# or reads exception flags, so sqrt() may be an instruction and selects may
+# be branch-free (-fno-math-errno -fno-trapping-math: IEEE results are
+# unchanged; no -ffast-math, and ISO C mode keeps FMA contraction off).
+OPENMP   ?= -fopenmp
+FPFLAGS  := -fno-math-errno -fno-trapping-math
+ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) $(OPENMP) $(FPFLAGS) -Iinclude -Isrc \
              $(PKG_CFLAGS) -DDK_VERSION='"$(VERSION)"' \
              -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
 LDLIBS_ALL = $(PKG_LIBS) -lm

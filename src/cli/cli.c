@@ -171,13 +171,13 @@ cli_warnings_flush(void)
 }
 
 int
-cli_load_db(dk_db **db)
+cli_load_db(dk_db **db, const char *name)
 {
     const char *dir = getenv("DELTAK_CRYSTALS");
     if (!dir || !*dir)
         dir = DK_CRYSTAL_DIR;
     dk_error err = {0};
-    if (dk_db_load(dir, db, &err))
+    if (dk_db_load_for(dir, name, db, &err))
         return cli_error("%s", err.msg);
     for (int i = 0; i < (*db)->nerrors; i++)
         cli_warn("%s (file skipped)", (*db)->errors[i]);

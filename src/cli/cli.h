@@ -106,11 +106,12 @@ void cli_warn_index(const dk_dispersion_set *set, unsigned flags,
                     double lambda_um, double temp_c);
 
 /*
- * Load the crystal database from $DELTAK_CRYSTALS or the built-in folder.
- * Files that fail to load become warnings. Returns 0, or CLI_FAIL after
- * printing the error.
+ * Load the crystal database from $DELTAK_CRYSTALS or the built-in folder:
+ * only the crystal @name when the files show which one it is
+ * (dk_db_load_for), every file when @name is NULL. Files that fail to
+ * load become warnings. Returns 0, or CLI_FAIL after printing the error.
  */
-int cli_load_db(dk_db **db);
+int cli_load_db(dk_db **db, const char *name);
 
 /* Find @name or print an error listing the known names; NULL if absent. */
 const dk_crystal *cli_find_crystal(const dk_db *db, const char *name);

@@ -294,7 +294,7 @@ cmd_crystals(int argc, char **argv)
         return rc == CLI_HELP ? 0 : rc;
     int json = cm.json;
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, NULL))
         return CLI_FAIL;
     const char *name = npos ? pos[0] : NULL;
     const dk_crystal *c = NULL;
