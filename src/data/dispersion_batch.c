@@ -9,10 +9,14 @@
  *   pole_x2    S x² / (x² − P)
  *   power      S x^p           (even integer p: (x²)^(p/2) by products)
  *   log_ratio  S ln[(A² − x²) / (B² − x²)]
- * Derivatives for dk_nfast_n_d(), with x' = dx/dλ (1, or −K/λ²):
+ * The canonical form (dispersion_batch.h) and its derivative in x² = λ²:
+ *   (N, D) ← (N u + A D, D u), (N', D') ← (N' u + N + A D', D' u + D),
+ *   (N/D)' = (N'D − N D')/D².
+ * Term by term, for the other forms, with x' = dx/dλ (1, or −K/λ²):
  *   pole −2xS/(x² − P)², pole_x2 −2xSP/(x² − P)², power pSx^(p−1),
  *   log_ratio 2xS [1/(B² − x²) − 1/(A² − x²)];  n = √Σ: n' = Σ'/(2n).
  */
+#include <float.h>
 #include <math.h>
 #include <string.h>
 
@@ -59,6 +63,53 @@ static int
 small_int(double e)
 {
     return e == floor(e) && fabs(e) <= MAX_INT_EXP;
+}
+
+/* The canonical form of the compiled terms, when they have one. */
+static void
+canonicalise(const dk_dispersion_set *set, const dk_axis_formula *axis,
+             dk_nfast *f)
+{
+    dk_nfast_canon *cf = &f->cf;
+    memset(cf, 0, sizeof *cf);
+    cf->squared = f->squared;
+    cf->lo_um = f->lo_um;
+    cf->hi_um = f->hi_um;
+    f->canonical = 0;
+    if (f->energy || !f->squared)
+        return;
+    for (int i = 0; i < f->nterms; i++) {
+        const dk_nfast_term *o = &f->t[i];
+        switch (o->kind) {
+        case DK_TERM_CONSTANT:
+            cf->c += o->s;
+            break;
+        case DK_TERM_POLE:
+        case DK_TERM_POLE_X2:
+            if (cf->npole == DK_NFAST_POLES)
+                return;
+            /* S x²/(x² − P) = S + S P/(x² − P) */
+            if (o->kind == DK_TERM_POLE_X2)
+                cf->c += o->s;
+            cf->pa[cf->npole] = o->kind == DK_TERM_POLE_X2 ? o->s * o->p
+                                                           : o->s;
+            cf->pp[cf->npole++] = o->p;
+            break;
+        case DK_TERM_POWER:
+            if (!o->ipow || o->ipow > 3 || o->ipow < -3)
+                return;
+            if (o->ipow > 0)
+                cf->cpos[o->ipow - 1] += o->s;
+            else
+                cf->cneg[-o->ipow - 1] += o->s, cf->neg = 1;
+            break;
+        default:
+            return;
+        }
+    }
+    (void)set;
+    (void)axis;
+    f->canonical = 1;
 }
 
 dk_status
@@ -108,6 +159,8 @@ dk_nfast_compile(const dk_dispersion_set *set, const dk_axis_formula *axis,
         }
         ok &= isfinite(o->s) && isfinite(o->p) && isfinite(o->b2);
     }
+    if (ok)
+        canonicalise(set, axis, out);
     if (set->has_thermo && axis->has_thermo) {
         const dk_thermo *th = &set->thermo;
         double dt = temp_c - th->reference_temperature_c, dtk = 1;
@@ -118,10 +171,19 @@ dk_nfast_compile(const dk_dispersion_set *set, const dk_axis_formula *axis,
             for (int j = 0; j < th->nexps; j++)
                 out->th_c[j] += g * axis->thermo.c[k][j];
         }
+        dk_nfast_canon *cf = &out->cf;
+        cf->thermo = 1;
         for (int j = 0; j < th->nexps; j++) {
-            out->th_e[j] = th->exps[j];
-            out->th_int[j] = small_int(th->exps[j]);
+            double e = th->exps[j];
+            out->th_e[j] = e;
+            out->th_int[j] = small_int(e);
             ok &= isfinite(out->th_c[j]);
+            if (e == 0 || e == 1)
+                cf->tpos[(int)e] += out->th_c[j];
+            else if (e <= -1 && e >= -3 && e == floor(e))
+                cf->tneg[(int)-e - 1] += out->th_c[j];
+            else
+                out->canonical = 0;
         }
     }
     return ok ? DK_OK : DK_EDOM;
@@ -172,9 +234,90 @@ thermo_power(const dk_nfast *f, int j, double lam)
     return f->th_int[j] ? ipow(lam, (int)f->th_e[j]) : pow(lam, f->th_e[j]);
 }
 
+/* The canonical form at λ, with @np poles, negative powers when @neg and
+ * a thermo-optic add-on when @th: the one arithmetic of the scalar and
+ * the batch evaluation (the batch kernels call it with constants). */
+DK_INLINE double
+canon_n(const dk_nfast_canon *f, double lam, int np, int neg, int th)
+{
+    double x2 = lam * lam;
+    double nn = 0, dd = 1;
+    for (int m = 0; m < np; m++) {
+        double u = x2 - f->pp[m];
+        nn = nn * u + f->pa[m] * dd;
+        dd = dd * u;
+    }
+    double sum = np ? f->c + nn / dd : f->c;
+    sum += x2 * (f->cpos[0] + x2 * (f->cpos[1] + x2 * f->cpos[2]));
+    if (neg) {
+        double y = 1 / x2;
+        sum += y * (f->cneg[0] + y * (f->cneg[1] + y * f->cneg[2]));
+    }
+    /* n² ≤ 0 has no index: one select at the end (vectorises) */
+    double n = sqrt(sum);
+    if (th) {
+        double mu = 1 / lam;
+        n += f->tpos[0] + lam * f->tpos[1] +
+             mu * (f->tneg[0] + mu * (f->tneg[1] + mu * f->tneg[2]));
+    }
+    int valid = (sum > 0) & (lam >= f->lo_um) & (lam <= f->hi_um) &
+                (lam > 0) & (fabs(n) <= DBL_MAX);
+    return valid ? n : NAN;
+}
+
+/* dn/dλ of the canonical form (see the top of this file). */
+static double
+canon_dn(const dk_nfast_canon *f, double lam, double n)
+{
+    double x2 = lam * lam;
+    double nn = 0, dd = 1, dn_ = 0, dd_ = 0;
+    for (int m = 0; m < f->npole; m++) {
+        double u = x2 - f->pp[m];
+        double nn1 = nn * u + f->pa[m] * dd, dd1 = dd * u;
+        dn_ = dn_ * u + nn + f->pa[m] * dd_;
+        dd_ = dd_ * u + dd;
+        nn = nn1, dd = dd1;
+    }
+    double ds = f->npole ? (dn_ * dd - nn * dd_) / (dd * dd) : 0;
+    ds += f->cpos[0] + x2 * (2 * f->cpos[1] + x2 * 3 * f->cpos[2]);
+    if (f->neg) {
+        double y = 1 / x2;
+        ds -= y * y *
+              (f->cneg[0] + y * (2 * f->cneg[1] + y * 3 * f->cneg[2]));
+    }
+    double d = ds * 2 * lam;   /* d(n²)/dλ */
+    {
+        double thermo = 0;
+        if (f->thermo) {
+            double mu = 1 / lam;
+            thermo = f->tpos[0] + lam * f->tpos[1] +
+                     mu * (f->tneg[0] + mu * (f->tneg[1] + mu * f->tneg[2]));
+        }
+        d /= 2 * (n - thermo);
+    }
+    if (f->thermo) {
+        double mu = 1 / lam;
+        d += f->tpos[1] -
+             mu * mu *
+                 (f->tneg[0] + mu * (2 * f->tneg[1] + mu * 3 * f->tneg[2]));
+    }
+    return d;
+}
+
 double
 dk_nfast_n_d(const dk_nfast *f, double lam, double *dn_dl)
 {
+    if (f->canonical) {
+        const dk_nfast_canon *cf = &f->cf;
+        double n = canon_n(cf, lam, cf->npole, cf->neg, cf->thermo);
+        if (dn_dl) {
+            double d = isfinite(n) ? canon_dn(cf, lam, n) : NAN;
+            *dn_dl = isfinite(d) ? d : NAN;
+            if (!isfinite(d))
+                return NAN;
+        }
+        return n;
+    }
     if (!(lam >= f->lo_um && lam <= f->hi_um && lam > 0)) {
         if (dn_dl)
             *dn_dl = NAN;
@@ -251,10 +394,46 @@ powers(const double *restrict b, double *restrict t, int k, size_t count)
 /* The batch kernel: one pass per term, each a plain loop over the
  * wavelengths; x², the sum and powers live in @work. The arithmetic per
  * element is that of dk_nfast_n_d(), in the same order. */
+/* One loop of canon_n() per formula shape: the shape constants make
+ * the pole loop unroll and the loop vectorise. */
+#define CANON_LOOP(NP, NEG, TH)                                               \
+    do {                                                                      \
+        _Pragma("omp simd") for (size_t i = 0; i < count; i++) n[i] =        \
+            canon_n(&cf, lam[i], NP, NEG, TH);                                \
+    } while (0)
+
+#define CANON_CASES(NEG, TH)                                                  \
+    switch (cf.npole) {                                                       \
+    case 0: CANON_LOOP(0, NEG, TH); break;                                    \
+    case 1: CANON_LOOP(1, NEG, TH); break;                                    \
+    case 2: CANON_LOOP(2, NEG, TH); break;                                    \
+    case 3: CANON_LOOP(3, NEG, TH); break;                                    \
+    default: CANON_LOOP(4, NEG, TH); break;                                   \
+    }
+
+DK_CLONES static void
+canon_batch(const dk_nfast_canon *restrict f, const double *restrict lam,
+            double *restrict n, size_t count)
+{
+    const dk_nfast_canon cf = *f;
+    if (cf.neg && cf.thermo)
+        CANON_CASES(1, 1)
+    else if (cf.neg)
+        CANON_CASES(1, 0)
+    else if (cf.thermo)
+        CANON_CASES(0, 1)
+    else
+        CANON_CASES(0, 0)
+}
+
 DK_CLONES void
 dk_nfast_batch(const dk_nfast *f, const double *restrict lam,
                double *restrict n, double *restrict work, size_t count)
 {
+    if (f->canonical) {
+        canon_batch(&f->cf, lam, n, count);
+        return;
+    }
     double *restrict x2 = work, *restrict sum = work + count;
     double *restrict tmp = work + 2 * count;
     const double kev = f->kev;

@@ -7,16 +7,26 @@
  * (set, axis, temperature): every coefficient polynomial in the
  * temperature variable is evaluated, pole positions squared, term factors
  * folded into the strengths, and the thermo-optic add-on reduced to
- * Σ_j C_j λ^e_j. What remains per wavelength is a short rational sum in x²
- * (x = λ, or the photon energy K/λ) and one square root. Terms are summed
- * in the order of the file, so the scalar and the batch evaluation give
- * identical bits; both agree with dk_index_eval() (Taylor arithmetic) to
- * rounding (tests/test_batch.c).
+ * Σ_j C_j λ^e_j. Formulas in λ made of constants, poles and even integer
+ * powers (all but the photon-energy forms) take the canonical form
  *
- * The batch evaluation loops over the terms and, inside, over the
- * wavelengths, so that each inner loop is a plain vectorisable kernel
- * (built for x86-64 baseline, AVX2 and AVX-512 and chosen at run time by
- * GCC's target_clones where the compiler and CPU support them).
+ *   n² (or n) = C + N(λ²)/D(λ²) + Σ_k c_k λ^2k,  k = −3 … 3,
+ *
+ * with the poles A_m/(λ² − P_m) (a pole_x2 S λ²/(λ² − P) being S + S P /
+ * (λ² − P)) summed into one fraction, N/D = Σ_m A_m/(λ² − P_m), built pole
+ * by pole as (N, D) ← (N u + A D, D u), u = λ² − P: one division and one
+ * square root per wavelength, the least a Sellmeier formula needs (the
+ * summed fraction is as well conditioned as the sum of the poles for the
+ * database's formulas, whose poles lie outside the fitted ranges). Other
+ * forms are evaluated term by term. The scalar and the batch evaluation
+ * share the arithmetic and give identical bits; both agree with
+ * dk_index_eval() (Taylor arithmetic, the terms one by one) to ~1e-15
+ * (tests/test_batch.c).
+ *
+ * The batch evaluation is one vectorised loop over the wavelengths per
+ * formula shape (number of poles, negative powers), built for x86-64
+ * baseline, AVX2 and AVX-512 and chosen at run time by GCC's
+ * target_clones where the compiler and CPU support them.
  *
  * Outside [lo_um, hi_um] (the crystal's transparency range, or (0, ∞)),
  * at a resonance of the formula or where n² ≤ 0 the value is NaN; range
@@ -30,6 +40,7 @@
 #include "deltak/dispersion.h"
 
 #define DK_NFAST_TERMS 16   /* terms of one axis (the database uses ≤ 8) */
+#define DK_NFAST_POLES 4    /* poles of the canonical form (database ≤ 3) */
 
 /* One term with its coefficients evaluated at the temperature. */
 typedef struct dk_nfast_term {
@@ -43,7 +54,24 @@ typedef struct dk_nfast_term {
     double e;          /* power: the exponent */
 } dk_nfast_term;
 
+/* The canonical form (see the top of this file). */
+typedef struct dk_nfast_canon {
+    double c;          /* the constant */
+    int npole;
+    double pa[DK_NFAST_POLES], pp[DK_NFAST_POLES];   /* A_m, P_m */
+    double cpos[3];    /* c_1 … c_3 of λ², λ⁴, λ⁶ */
+    double cneg[3];    /* c_−1 … c_−3 */
+    int neg;           /* some c_−k ≠ 0 */
+    int thermo;        /* a thermo-optic add-on: */
+    double tpos[2];    /* its λ⁰, λ¹ coefficients */
+    double tneg[3];    /* and λ⁻¹ … λ⁻³ */
+    int squared;
+    double lo_um, hi_um;
+} dk_nfast_canon;
+
 typedef struct dk_nfast {
+    int canonical;     /* use cf (else the terms below) */
+    dk_nfast_canon cf;
     int nterms;
     dk_nfast_term t[DK_NFAST_TERMS];
     int energy;        /* x = kev / λ (photon energy in eV) */
