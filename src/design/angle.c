@@ -24,6 +24,7 @@
 #include "deltak/constants.h"
 #include "deltak/nonlinear.h"
 #include "deltak/roots.h"
+#include "angle_fast.h"
 #include "core/roots_sampled.h"
 #include "core/simd.h"
 #include "optics/modes_value.h"
@@ -170,20 +171,27 @@ picks_of(const dk_crystal *c, const char pol[3], int pick[3])
  * eigenvalue nearer 1/n_o² is o). Scalar arguments and branch-free
  * selects, so that the line kernel below vectorises. */
 DK_INLINE double
-pick_index(const double a[3], double p0, double p1, double p2, double q0,
-           double q1, double q2, int pick)
+pick_index3(double a0, double a1, double a2, double p0, double p1, double p2,
+            double q0, double q1, double q2, int pick)
 {
-    double m11 = 0 + a[0] * (p0 * p0) + a[1] * (p1 * p1) + a[2] * (p2 * p2);
-    double m12 = 0 + a[0] * (p0 * q0) + a[1] * (p1 * q1) + a[2] * (p2 * q2);
-    double m22 = 0 + a[0] * (q0 * q0) + a[1] * (q1 * q1) + a[2] * (q2 * q2);
+    double m11 = 0 + a0 * (p0 * p0) + a1 * (p1 * p1) + a2 * (p2 * p2);
+    double m12 = 0 + a0 * (p0 * q0) + a1 * (p1 * q1) + a2 * (p2 * q2);
+    double m22 = 0 + a0 * (q0 * q0) + a1 * (q1 * q1) + a2 * (q2 * q2);
     double mean = (m11 + m22) * 0.5, half = (m11 - m22) * 0.5;
     double root = sqrt(half * half + m12 * m12);
     double u0 = mean - root, u1 = mean + root;
-    int o_first = fabs(u0 - a[0]) < fabs(u1 - a[0]);
+    int o_first = fabs(u0 - a0) < fabs(u1 - a0);
     int take_u1 = (pick == PICK_FAST) | ((pick == PICK_O) & !o_first) |
                   ((pick == PICK_E) & o_first);
     double u = take_u1 ? u1 : u0;
     return pick == PICK_NONE ? NAN : 1 / sqrt(u);
+}
+
+DK_INLINE double
+pick_index(const double a[3], double p0, double p1, double p2, double q0,
+           double q1, double q2, int pick)
+{
+    return pick_index3(a[0], a[1], a[2], p0, p1, p2, q0, q1, q2, pick);
 }
 
 static inline double
@@ -318,6 +326,132 @@ dk_angle_delta_k(dk_angle_problem *pb, const char pol[3], double theta_rad,
     if (!freeze(pb, &fz, 0, NULL))
         return NAN;
     return delta_k_frozen(pb, &fz, pol, theta_rad, phi_rad);
+}
+
+dk_status
+dk_angle_fast_init(const dk_angle_problem *pb, const char pol[3],
+                   dk_angle_fast *f)
+{
+    const dk_crystal *c = pb->crystal;
+    const char *labels = dk_crystal_axis_labels(c);
+    f->pb = *pb;
+    memcpy(f->pol, pol, 3);
+    f->pol[3] = '\0';
+    for (int i = 0; i < 3; i++) {
+        char ax = c->optical_class == DK_BIAXIAL    ? labels[i]
+                  : c->optical_class == DK_UNIAXIAL ? (i < 2 ? 'o' : 'e')
+                                                    : 'n';
+        const dk_axis_formula *a = dk_set_find_axis(pb->set, ax);
+        if (!a)
+            return DK_ENOTFOUND;
+        dk_status s = dk_nfast_compile(pb->set, a, pb->temp_c,
+                                       c->transparency_um[0],
+                                       c->transparency_um[1], &f->ax[i]);
+        if (s)
+            return s;
+    }
+    return DK_OK;
+}
+
+/* freeze() from compiled axes: the same indices dk_principal_n() gives. */
+static int
+freeze_fast(const dk_angle_fast *f, const dk_waves *w, frozen *fz)
+{
+    const double lam[3] = {w->signal_um, w->idler_um, w->pump_um};
+    dk_optical_class k = f->pb.crystal->optical_class;
+    for (int j = 0; j < 3; j++) {
+        double *n = fz->n[j];
+        n[0] = dk_nfast_n(&f->ax[0], lam[j]);
+        n[1] = k == DK_BIAXIAL ? dk_nfast_n(&f->ax[1], lam[j]) : n[0];
+        n[2] = k == DK_ISOTROPIC ? n[0] : dk_nfast_n(&f->ax[2], lam[j]);
+        if (!isfinite(n[0]) || !isfinite(n[1]) || !isfinite(n[2]))
+            return 0;
+        for (int i = 0; i < 3; i++)
+            fz->a[j][i] = 1 / (n[i] * n[i]);
+    }
+    fz->has_d = 0;
+    return 1;
+}
+
+double
+dk_angle_fast_dk(const dk_angle_fast *f, const dk_waves *w, double theta_rad,
+                 double phi_rad)
+{
+    frozen fz;
+    if (!freeze_fast(f, w, &fz))
+        return NAN;
+    dk_angle_problem pb = f->pb;
+    pb.waves = *w;
+    return delta_k_frozen(&pb, &fz, f->pol, theta_rad, phi_rad);
+}
+
+/* The collinear kernel of dk_angle_fast_batch(): principal indices in, Δk
+ * out, one vectorised loop with the arithmetic of collinear_dk(). */
+DK_CLONES static void
+batch_collinear(const int pick[3], double st, double ct, double sp,
+                double cp, const double *restrict ls,
+                const double *restrict li, const double *restrict lp,
+                const double *restrict n9, double *restrict dk, size_t n)
+{
+    const double p0 = cp * ct, p1 = sp * ct, p2 = -st, q0 = -sp, q1 = cp;
+    const int k0 = pick[0], k1 = pick[1], k2 = pick[2];
+    const double *restrict sx = n9, *restrict sy = n9 + n;
+    const double *restrict sz = n9 + 2 * n, *restrict ix = n9 + 3 * n;
+    const double *restrict iy = n9 + 4 * n, *restrict iz = n9 + 5 * n;
+    const double *restrict px = n9 + 6 * n, *restrict py = n9 + 7 * n;
+    const double *restrict pz = n9 + 8 * n;
+#pragma omp simd
+    for (size_t c = 0; c < n; c++) {
+        double kp = pick_index3(1 / (px[c] * px[c]), 1 / (py[c] * py[c]),
+                                1 / (pz[c] * pz[c]), p0, p1, p2, q0, q1, 0,
+                                k2) /
+                    lp[c];
+        double ks = pick_index3(1 / (sx[c] * sx[c]), 1 / (sy[c] * sy[c]),
+                                1 / (sz[c] * sz[c]), p0, p1, p2, q0, q1, 0,
+                                k0) /
+                    ls[c];
+        double ki = pick_index3(1 / (ix[c] * ix[c]), 1 / (iy[c] * iy[c]),
+                                1 / (iz[c] * iz[c]), p0, p1, p2, q0, q1, 0,
+                                k1) /
+                    li[c];
+        dk[c] = 2 * M_PI * (kp - ks - ki);
+    }
+}
+
+void
+dk_angle_fast_batch(const dk_angle_fast *f, double theta_rad, double phi_rad,
+                    const double *ls, const double *li, const double *lp,
+                    double *dk, double *work, size_t n)
+{
+    double st = sin(theta_rad), ct = cos(theta_rad);
+    double sp = sin(phi_rad), cp = cos(phi_rad);
+    if (f->pb.alpha_rad != 0 || !(st > AXIS_SIN)) {
+        for (size_t c = 0; c < n; c++) {
+            dk_waves w = {lp[c], ls[c], li[c]};
+            dk[c] = dk_angle_fast_dk(f, &w, theta_rad, phi_rad);
+        }
+        return;
+    }
+    /* work: the index of each wave on each axis (9n), then the batch
+     * kernel's scratch (3n). */
+    double *n9 = work, *scratch = work + 9 * n;
+    const double *src[3] = {ls, li, lp};
+    dk_optical_class k = f->pb.crystal->optical_class;
+    for (int j = 0; j < 3; j++) {
+        double *nn = n9 + 3 * (size_t)j * n;
+        dk_nfast_batch(&f->ax[0], src[j], nn, scratch, n);
+        if (k == DK_BIAXIAL)
+            dk_nfast_batch(&f->ax[1], src[j], nn + n, scratch, n);
+        else
+            memcpy(nn + n, nn, n * sizeof *nn);
+        if (k == DK_ISOTROPIC)
+            memcpy(nn + 2 * n, nn, n * sizeof *nn);
+        else
+            dk_nfast_batch(&f->ax[2], src[j], nn + 2 * n, scratch, n);
+    }
+    int pick[3];
+    picks_of(f->pb.crystal, f->pol, pick);
+    batch_collinear(pick, st, ct, sp, cp, ls, li, lp, n9, dk, n);
 }
 
 void

@@ -19,10 +19,10 @@
 #include "deltak/roots.h"
 #include "qpm_fast.h"
 
-#define TEMP_SCAN 400      /* grid intervals over the oven range */
-#define FREQ_SCAN 2000     /* grid intervals over the signal share */
-#define TEMP_TOL_C 1e-7
-#define FREQ_TOL 1e-12
+#define TEMP_SCAN DK_QPM_TEMP_SCAN
+#define FREQ_SCAN DK_QPM_FREQ_SCAN
+#define TEMP_TOL_C DK_QPM_TEMP_TOL_C
+#define FREQ_TOL DK_QPM_FREQ_TOL
 
 /* The axis label a polarisation letter means in this crystal. */
 static int

@@ -17,6 +17,13 @@
 #include "data/dispersion_batch.h"
 #include "deltak/qpm.h"
 
+/* The scan grids of the QPM solvers (qpm.c), shared with the sweeps that
+ * reproduce their roots by continuation (src/analyses/sweep_trace.c). */
+#define DK_QPM_TEMP_SCAN 400     /* grid intervals over the oven range */
+#define DK_QPM_FREQ_SCAN 2000    /* grid intervals over the signal share */
+#define DK_QPM_TEMP_TOL_C 1e-7
+#define DK_QPM_FREQ_TOL 1e-12
+
 typedef struct dk_qpm_fast {
     dk_nfast ax[3];     /* signal, idler, pump at temp_c, NaN outside the
                          * transparency range */
