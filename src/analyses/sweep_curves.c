@@ -3,9 +3,14 @@
  * series of (x, y, range flags) (see deltak/sweep.h).
  *
  * Roots at each point are sorted; branch k of a curve joins the k-th
- * roots of neighbouring points. Analyses bring the design back to phase
- * matching at each point before they are evaluated, starting from the
- * previous point's angle (a continuation along the curve).
+ * roots of neighbouring points. The roots come from the tracer
+ * (sweep_trace.c): the roots dk_sweep_solve() finds at each point, by
+ * continuation, plus the turning points where two branches meet (or a
+ * signal/idler pair meets at degeneracy): those are inserted into the
+ * series they end (or start), and the line is broken there when the
+ * series goes on with another branch. Analyses bring the design back to
+ * phase matching at each point before they are evaluated, starting from
+ * the previous point's angle (a continuation along the curve).
  */
 #include <math.h>
 #include <stdio.h>
@@ -14,6 +19,7 @@
 
 #include "deltak/pulse.h"
 #include "deltak/sweep.h"
+#include "sweep_internal.h"
 
 #define R DK_SWEEP_MAX_ROOTS
 
@@ -22,6 +28,7 @@ typedef struct point {
     int n;
     double y[R];
     unsigned f[R];
+    int src[R];      /* root each value comes from (solve; −1 unknown) */
 } point;
 
 static const struct {
@@ -298,6 +305,164 @@ add_series(dk_sweep_result *res, const dk_sweep_spec *sp, int f,
     return DK_OK;
 }
 
+/* Range flags of the values of one solved point, as eval_point() sets
+ * them, and the flagged ones into the span. */
+typedef struct solve_ctx {
+    const dk_sweep_spec *sp;
+    point *pts;
+    dk_range_span *ex;
+    long valued;
+} solve_ctx;
+
+static void
+solve_each(void *vctx, int i, dk_sweep *s, const trace_point *tp)
+{
+    solve_ctx *c = vctx;
+    const dk_sweep_spec *sp = c->sp;
+    point *pt = &c->pts[i];
+    dk_design *d = &s->d;
+    pt->n = tp->n;
+    for (int k = 0; k < tp->n; k++) {
+        pt->y[k] = tp->v[k];
+        pt->src[k] = tp->src[k];
+    }
+    for (int k = 0; k < tp->n; k++) {
+        dk_waves w;
+        double t;
+        if (sp->target == DK_VAR_WAVELENGTHS) {
+            w = d->waves;
+            w.signal_um = pt->y[k & ~1];
+            w.idler_um = (k | 1) < pt->n ? pt->y[k | 1] : NAN;
+            t = d->temp_c;
+        } else {
+            point_state(s, sp->target, pt->y[k], &w, &t);
+        }
+        pt->f[k] = dk_design_range_flags(d, &w, t);
+        if (pt->f[k])
+            dk_range_span_add(c->ex, pt->f[k], &w, t);
+    }
+    c->valued += pt->n > 0;
+}
+
+/* The SP_WAVE_* kind of value slot @k of a solved point. */
+static int
+slot_wave(const dk_sweep_spec *sp, int k)
+{
+    switch (sp->target) {
+    case DK_VAR_WAVELENGTHS: return k % 2 ? SP_WAVE_IDLER : SP_WAVE_SIGNAL;
+    case DK_VAR_SIGNAL: return SP_WAVE_SIGNAL;
+    case DK_VAR_IDLER: return SP_WAVE_IDLER;
+    default: return SP_WAVE_SELF;
+    }
+}
+
+static int
+from_fold(const point *pt, int k, const sweep_fold *f)
+{
+    return k < pt->n && pt->src[k] >= 0 &&
+           (pt->src[k] == f->root[0] || pt->src[k] == f->root[1]);
+}
+
+/* Series of the solved points of one family member, with the turning
+ * points inserted (see the top of this file). */
+static dk_status
+add_solve_series(dk_sweep_result *res, const dk_sweep_spec *sp, int f,
+                 const double *xs, const point *pts, const sweep_fold *folds,
+                 int nfolds, dk_range_span *ex, dk_error *err)
+{
+    int pairs = sp->target == DK_VAR_WAVELENGTHS;
+    int maxk = 0;
+    for (int i = 0; i < sp->nx; i++)
+        maxk = pts[i].n > maxk ? pts[i].n : maxk;
+    char fam[40] = "";
+    if (sp->nfamily)
+        family_label(sp->family, sp->family_values[f], fam, sizeof fam);
+    for (int k = 0; k < maxk; k++) {
+        dk_series *s = new_series(res, (size_t)sp->nx + 2 * (size_t)nfolds);
+        if (!s)
+            return dk_error_set(err, DK_ENOMEM, "out of memory");
+        s->family = sp->nfamily ? f : -1;
+        s->branch = pairs ? k / 2 : k;
+        s->wave = pairs ? k % 2 : -1;
+        char br[40] = "";
+        if (pairs)
+            snprintf(br, sizeof br, "%s%s", k % 2 ? "idler" : "signal",
+                     maxk > 2 ? (k / 2 ? " (2nd pair)" : " (1st pair)") : "");
+        snprintf(s->label, sizeof s->label, "%s%s%s", fam,
+                 fam[0] && br[0] ? ", " : "", br);
+        size_t m = 0;
+        int e = 0, wave = slot_wave(sp, k);
+        for (int i = 0; i < sp->nx; i++) {
+            s->x[m] = xs[i];
+            s->y[m] = k < pts[i].n ? pts[i].y[k] : NAN;
+            s->flags[m] = k < pts[i].n ? pts[i].f[k] : 0;
+            res->flags |= s->flags[m];
+            m++;
+            /* Turning points between this point and the next. */
+            for (; e < nfolds && folds[e].at - folds[e].birth <= i; e++) {
+                const sweep_fold *fo = &folds[e];
+                if (fo->at - fo->birth < i || i + 1 >= sp->nx)
+                    continue;
+                int here = fo->birth ? from_fold(&pts[i + 1], k, fo)
+                                     : from_fold(&pts[i], k, fo);
+                if (!here)
+                    continue;
+                int go_on = k < pts[i + 1].n;
+                int came = k < pts[i].n;
+                if (fo->birth && came)
+                    s->x[m] = fo->x, s->y[m] = NAN, s->flags[m++] = 0;
+                s->x[m] = fo->x;
+                s->y[m] = fo->y[wave];
+                s->flags[m] = fo->flags;
+                res->flags |= fo->flags;
+                if (fo->flags)
+                    dk_range_span_add(ex, fo->flags, &fo->waves, fo->temp_c);
+                m++;
+                if (!fo->birth && go_on)
+                    s->x[m] = fo->x, s->y[m] = NAN, s->flags[m++] = 0;
+            }
+        }
+        s->n = m;
+    }
+    return DK_OK;
+}
+
+/* A solve curve through the tracer. */
+static dk_status
+solve_curves(const dk_design *base, const dk_sweep_spec *sp, dk_sweep *s,
+             const double *xs, point *pts, dk_sweep_result *res,
+             dk_range_span *ex, long *valued, dk_error *first, dk_error *err)
+{
+    trace_point *tp = malloc((size_t)sp->nx * sizeof *tp);
+    if (!tp)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    dk_status st = DK_OK;
+    int nfam = sp->nfamily ? sp->nfamily : 1;
+    for (int f = 0; f < nfam && !st; f++) {
+        dk_sweep_init(s, base);
+        if (sp->nfamily &&
+            (st = dk_sweep_set(s, sp->family, sp->family_values[f], err)))
+            break;
+        for (int i = 0; i < sp->nx; i++)
+            pts[i].n = 0;
+        solve_ctx ctx = {sp, pts, ex, 0};
+        sweep_trace_opts opts = {1, solve_each, &ctx};
+        sweep_fold *folds = NULL;
+        int nfolds = 0;
+        st = sweep_trace(s, sp->x, xs, sp->nx, sp->target, &opts, tp, &folds,
+                         &nfolds, first, NULL);
+        if (st == DK_ENOMEM)
+            st = dk_error_set(err, DK_ENOMEM, "out of memory");
+        *valued += ctx.valued;
+        if (!st)
+            st = add_solve_series(res, sp, f, xs, pts, folds, nfolds, ex,
+                                  err);
+        free(folds);
+    }
+    free(tp);
+    return st;
+}
+
 dk_status
 dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
                 dk_sweep_result *res, dk_error *err)
@@ -322,6 +487,11 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
     dk_error first = {0};
     long valued = 0;
     int nfam = sp->nfamily ? sp->nfamily : 1;
+    if (sp->quantity == DK_SWEEP_SOLVE) {
+        st = solve_curves(base, sp, s, xs, pts, res, &ex, &valued, &first,
+                          err);
+        nfam = 0;
+    }
     for (int f = 0; f < nfam && !st; f++) {
         dk_sweep_init(s, base);
         if (sp->nfamily &&
