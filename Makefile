@@ -107,10 +107,12 @@ check: $(BUILD)/deltak $(TEST_BIN)
 demo: $(BUILD)/deltak
 	@sh examples/demo.sh $(BUILD)/deltak
 
-$(BUILD)/bench_index: tests/bench/bench_index.c $(BUILD)/libdeltak.a
+$(BUILD)/bench_%: tests/bench/bench_%.c $(BUILD)/libdeltak.a
 	$(Q)$(CC) $(ALL_CFLAGS) -o $@ $< $(BUILD)/libdeltak.a $(LDLIBS_ALL)
 
-bench: $(BUILD)/deltak $(BUILD)/bench_index
+# Speed on this machine: engine throughput against a NumPy/SciPy script of
+# the same jobs, latency of whole commands, figure rendering.
+bench: $(BUILD)/deltak $(BUILD)/bench_index $(BUILD)/bench_speed
 	@sh tests/bench/run.sh $(BUILD)/deltak
 
 plots: $(BUILD)/deltak
