@@ -47,6 +47,10 @@
 #define PI_3 0x1.3198a2e037073p-68
 #define ROUND_MAGIC 0x1.8p52   /* (t + M) − M rounds t to an integer */
 
+_Static_assert(DK_CELL_OK == 0 && DK_CELL_EXTRAPOLATED == 1 &&
+                   DK_CELL_UNDEFINED == 2,
+               "finish_line() computes the cell states arithmetically");
+
 DK_INLINE double
 sinc2_one(double dk, double length_um)
 {
@@ -253,19 +257,21 @@ reciprocals(const double *restrict ls, const double *restrict li,
     }
 }
 
-/* |2π(np/λp − ns/λs − ni/λi)| − K with the reciprocals of the waves
- * computed once per map (dk_qpm_fast_dk() divides: the two agree to an
- * ulp of each term). */
+/* sinc²(ΔkL/2) with Δk = |2π(np/λp − ns/λs − ni/λi)| − K, the
+ * reciprocals of the waves computed once per map (dk_qpm_fast_dk()
+ * divides: the two agree to an ulp of each term). */
 DK_CLONES static void
 qpm_line(const double *restrict rs, const double *restrict ri,
          const double *restrict rp, const double *restrict ns,
          const double *restrict ni, const double *restrict np,
-         const double *restrict kg, double *restrict dk, size_t n)
+         const double *restrict kg, const double *restrict lum,
+         double *restrict z, size_t n)
 {
 #pragma omp simd
     for (size_t q = 0; q < n; q++) {
         double m = 2 * M_PI * (np[q] * rp[q] - ns[q] * rs[q] - ni[q] * ri[q]);
-        dk[q] = fabs(m) <= DBL_MAX ? fabs(m) - kg[q] : NAN;
+        double dk = fabs(m) <= DBL_MAX ? fabs(m) - kg[q] : NAN;
+        z[q] = sinc2_one(dk, lum[q]);
     }
 }
 
@@ -343,39 +349,58 @@ row_waves(const cell_state *rs, int shg, dk_var xv, const double *restrict x,
     }
 }
 
-/* The end of a line: sinc²(Δk L/2), the DK_RANGE_* flags of each cell
+/* @bit when λ (> 0) lies outside [lo, hi]: selects of doubles only, which
+ * every vector unit has. */
+DK_INLINE double
+out_of(double lam, double lo, double hi, double bit)
+{
+    double v = lam < lo ? bit : 0.0;
+    v = lam > hi ? bit : v;
+    return lam > 0 ? v : 0.0;
+}
+
+/* The end of a line: the DK_RANGE_* flags of each cell
  * (flags_of() as compares: dk_set_range_warnings() per wave, the
  * temperature's flag @tf, SHG's merged fundamental) and its DK_CELL_*
  * state, in one vectorised pass. Returns the cells with a value. */
 DK_CLONES static size_t
-finish_line(const ranges *r, unsigned tf, const double *restrict dk,
-            const double *restrict lum, const double *restrict ls,
+finish_line(const ranges *r, unsigned tf, const double *restrict ls,
             const double *restrict li, const double *restrict lp,
-            double *restrict z, unsigned char *restrict fl,
-            unsigned char *restrict cell, int n)
+            const double *restrict z, unsigned char *restrict fl,
+            unsigned char *restrict cell, double *restrict tmp, int n)
 {
     const double lo = r->lam[0], hi = r->lam[1];
     const int shg = r->shg;
+    /* The flags as small integers held in doubles (−1: no value), so
+     * that this loop stays in one lane width and vectorises; then bytes. */
+    double *restrict fd = tmp;
+    const double dt = (double)tf;
+#pragma omp simd
+    for (int q = 0; q < n; q++) {
+        double so = out_of(ls[q], lo, hi, 1);
+        double io = out_of(li[q], lo, hi, 1);
+        double po = out_of(lp[q], lo, hi, 4);
+        double si = so + 2 * io;
+        double both = so + io > 0 ? 3.0 : 0.0;
+        si = shg ? both : si;
+        double v = dt + si + po;
+        fd[q] = z[q] == z[q] ? v : -1.0;   /* NaN: no value */
+    }
+    double def = 0;
+#pragma omp simd reduction(+ : def)
+    for (int q = 0; q < n; q++)
+        def += fd[q] >= 0 ? 1.0 : 0.0;
+    /* Bytes through 32-bit integers (DK_CELL_OK 0, _EXTRAPOLATED 1,
+     * _UNDEFINED 2): conversions the vector units have. */
+    int *restrict fi = (int *)(tmp + n);
 #pragma omp simd
     for (int q = 0; q < n; q++)
-        z[q] = sinc2_one(dk[q], lum[q]);
-    /* The flags as small integers held in doubles, so that the loop
-     * stays in one lane width and vectorises. */
-    const double dt = (double)tf;
-    int def = 0;
-#pragma omp simd reduction(+ : def)
+        fi[q] = (int)fd[q];
+#pragma omp simd
     for (int q = 0; q < n; q++) {
-        double so = ls[q] > 0 && (ls[q] < lo || ls[q] > hi) ? 1 : 0;
-        double io = li[q] > 0 && (li[q] < lo || li[q] > hi) ? 1 : 0;
-        double po = lp[q] > 0 && (lp[q] < lo || lp[q] > hi) ? 4 : 0;
-        double si = shg ? (so + io > 0 ? 3 : 0) : so + 2 * io;
-        double ok = z[q] == z[q] ? 1 : 0;   /* not NaN */
-        double f = ok * (dt + si + po);
-        fl[q] = (unsigned char)f;
-        cell[q] = (unsigned char)(ok == 0  ? DK_CELL_UNDEFINED
-                                  : f != 0 ? DK_CELL_EXTRAPOLATED
-                                           : DK_CELL_OK);
-        def += ok != 0;
+        int f = fi[q];
+        fl[q] = (unsigned char)(f > 0 ? f : 0);
+        cell[q] = (unsigned char)((f > 0) + 2 * (f < 0));
     }
     return (size_t)def;
 }
@@ -471,7 +496,7 @@ map_line(const map_job *jb, scratch *sc, int o, size_t *defined)
             indices(&f.ax[1], sc->li, sc->ni, sc->work, len, sc->same[1]);
             indices(&f.ax[2], sc->lp, sc->np, sc->work, len, sc->same[2]);
             qpm_line(sc->rs, sc->ri, sc->rp, sc->ns, sc->ni, sc->np, sc->kg,
-                     sc->dk, (size_t)len);
+                     sc->lum, sc->z, (size_t)len);
             compiled = 1;
         }
     } else {
@@ -481,6 +506,7 @@ map_line(const map_job *jb, scratch *sc, int o, size_t *defined)
         if (isfinite(temp) && dk_angle_fast_init(&pb, d->pol, &f) == DK_OK) {
             dk_angle_fast_batch(&f, d->theta_rad, d->phi_rad, sc->ls, sc->li,
                                 sc->lp, sc->dk, sc->work, (size_t)len);
+            dk_sinc2_batch(sc->dk, sc->lum, sc->z, (size_t)len);
             compiled = 1;
         }
     }
@@ -504,18 +530,20 @@ map_line(const map_job *jb, scratch *sc, int o, size_t *defined)
                                 : dk_angle_delta_k(&pb, d->pol, d->theta_rad,
                                                    d->phi_rad);
             }
+            sc->z[q] = isfinite(sc->dk[q]) ? dk_sinc2(sc->dk[q], sc->lum[q])
+                                          : NAN;
         }
     unsigned tf = temp_flag(&jb->rg, temp);
     size_t def;
     if (!jb->by_column) {
         size_t c0 = (size_t)o * res->nx;
-        def = finish_line(&jb->rg, tf, sc->dk, sc->lum, sc->ls, sc->li,
-                          sc->lp, res->z + c0, jb->flags + c0, res->cell + c0,
-                          len);
+        memcpy(res->z + c0, sc->z, (size_t)len * sizeof *sc->z);
+        def = finish_line(&jb->rg, tf, sc->ls, sc->li, sc->lp, sc->z,
+                          jb->flags + c0, res->cell + c0, sc->work, len);
     } else {
         unsigned char *cell = (unsigned char *)sc->ns;   /* free by now */
-        def = finish_line(&jb->rg, tf, sc->dk, sc->lum, sc->ls, sc->li,
-                          sc->lp, sc->z, sc->f, cell, len);
+        def = finish_line(&jb->rg, tf, sc->ls, sc->li, sc->lp, sc->z, sc->f,
+                          cell, sc->work, len);
         for (int q = 0; q < len; q++) {
             size_t c = (size_t)q * res->nx + o;
             res->z[c] = sc->z[q];
