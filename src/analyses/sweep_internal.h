@@ -54,6 +54,7 @@ typedef struct sweep_problem {
     dk_qpm_fast qf;
     dk_angle_fast af;
     double fast_temp_c; /* temperature they were compiled at */
+    double np;          /* QPM share: the pump's index at this point */
 } sweep_problem;
 
 /*

@@ -120,6 +120,10 @@ sweep_problem_setup(sweep_problem *p, dk_sweep *s, dk_var target)
             p->nscan = p->half ? DK_QPM_FREQ_SCAN / 2 : DK_QPM_FREQ_SCAN;
             p->xtol = DK_QPM_FREQ_TOL;
             p->maxroots = 64;
+            compile(p, d);
+            if (p->fast)
+                p->np = dk_nfast_n(&p->qf.ax[2], pump);
+            break;
         } else {
             p->kind = SP_ANGLE_SHARE;
             p->symmetric = d->pol[0] == d->pol[1] && d->angle.alpha_rad == 0;
@@ -146,7 +150,8 @@ sweep_problem_eval(sweep_problem *p, double y, double *dfdy)
     switch (p->kind) {
     case SP_QPM_SHARE:
         if (p->fast)
-            return dk_qpm_fast_dk_share(&p->qf, p->pump_um, y, dfdy);
+            return dk_qpm_fast_dk_share_np(&p->qf, p->pump_um, p->np, y,
+                                           dfdy);
         {
             dk_waves w = dk_waves_of_share(p->pump_um, y);
             return dk_qpm_delta_k(&d->qpm, &w, d->temp_c, d->period_um);

@@ -10,9 +10,13 @@
  *
  *   Nodes. Each node's value is a smooth function of the sweep variable.
  *   After each evaluation the node gets a deadline: the point at which a
- *   linear extrapolation of its last two values would have covered half
- *   the distance to zero (|f| / |df/dpoint| / 2, at least the next point,
- *   at most 1/16 of the sweep). Until then its sign is taken as known. A
+ *   linear extrapolation of its last two values would have covered three
+ *   quarters of the distance to zero (0.75 |f| / |df/dpoint|, at least the
+ *   next point, at most 1/4 of the sweep: a slope that grows by a third
+ *   within the step is still caught). Until then its sign is taken as known
+ *   (the nodes wait in buckets by deadline, and the intervals whose ends
+ *   differ in sign are kept in a list updated from the nodes evaluated,
+ *   so a point touches only those nodes and intervals). A
  *   node approaching a root is thus evaluated ever more often and at the
  *   crossing itself, a node far from any root seldom. Points where the
  *   state of the problem changes (an error, a new grid) are scanned in
@@ -52,8 +56,8 @@
 #include "core/roots_sampled.h"
 #include "sweep_internal.h"
 
-#define SAFETY 0.5        /* fraction of the extrapolated way to zero */
-#define SKIP_PARTS 16     /* at most 1/16 of the sweep between evaluations */
+#define SAFETY 0.75       /* fraction of the extrapolated way to zero */
+#define SKIP_PARTS 4      /* at most 1/4 of the sweep between evaluations */
 #define NEWTON_STEPS 8
 #define MAX_TRACK 64
 #define GOLDEN_STEPS 60
@@ -72,6 +76,14 @@ typedef struct tracer {
     int *last;            /* point of their last evaluation (−1: none) */
     int *due;             /* point at which they must be evaluated */
     int *gap;             /* backoff for nodes without a value */
+    int *lnext, *lprev;   /* the bucket lists of nodes by deadline */
+    unsigned char *ist;   /* interval k = [k − 1, k] may hold a root */
+    int *iv, niv;         /* those intervals, ascending */
+    int *tch, ntch;       /* nodes evaluated since the intervals were
+                           * brought up to date */
+    int *tgen, gen;       /* generation of each node's entry in tch */
+    int *head;            /* first node of each bucket (−1: empty) */
+    int nbucket;          /* maxskip + 1 buckets, deadline mod nbucket */
     int cap;              /* nodes allocated */
     int maxskip;
     int nb;               /* branches of the previous point */
@@ -100,10 +112,44 @@ node_y(const tracer *t, int j)
     return dk_scan_node(t->p.lo, t->p.hi, t->p.nscan, j);
 }
 
+/* Take node j out of its bucket. */
+static void
+unlink_node(tracer *t, int j)
+{
+    if (t->due[j] < 0)
+        return;
+    int b = t->due[j] % t->nbucket;
+    if (t->lprev[j] >= 0)
+        t->lnext[t->lprev[j]] = t->lnext[j];
+    else
+        t->head[b] = t->lnext[j];
+    if (t->lnext[j] >= 0)
+        t->lprev[t->lnext[j]] = t->lprev[j];
+    t->due[j] = -1;
+}
+
+/* Put node j in the bucket of point @due. */
+static void
+schedule(tracer *t, int j, int due)
+{
+    int b = due % t->nbucket;
+    t->due[j] = due;
+    t->lprev[j] = -1;
+    t->lnext[j] = t->head[b];
+    if (t->head[b] >= 0)
+        t->lprev[t->head[b]] = j;
+    t->head[b] = j;
+}
+
 /* Evaluate node j at point i and set its deadline. */
 static void
 eval_node(tracer *t, int j, int i)
 {
+    unlink_node(t, j);
+    if (t->tgen[j] != t->gen) {
+        t->tgen[j] = t->gen;
+        t->tch[t->ntch++] = j;
+    }
     double f = eval(t, node_y(t, j), NULL);
     double rate = NAN;
     if (t->last[j] >= 0 && t->last[j] < i && isfinite(t->v[j]) &&
@@ -126,7 +172,7 @@ eval_node(tracer *t, int j, int i)
             step = d < 1 ? 1 : d > t->maxskip ? t->maxskip : (int)d;
         }
     }
-    t->due[j] = i + step;
+    schedule(t, j, i + step);
 }
 
 static int
@@ -146,10 +192,71 @@ grow(tracer *t, int n)
     int *g = realloc(t->gap, n * sizeof *g);
     if (g)
         t->gap = g;
-    if (!v || !l || !d || !g)
+    int *nx = realloc(t->lnext, n * sizeof *nx);
+    if (nx)
+        t->lnext = nx;
+    int *pv = realloc(t->lprev, n * sizeof *pv);
+    if (pv)
+        t->lprev = pv;
+    unsigned char *is = realloc(t->ist, n);
+    if (is)
+        t->ist = is;
+    int *iv = realloc(t->iv, n * sizeof *iv);
+    if (iv)
+        t->iv = iv;
+    int *tc = realloc(t->tch, n * sizeof *tc);
+    if (tc)
+        t->tch = tc;
+    int *tg = realloc(t->tgen, n * sizeof *tg);
+    if (tg)
+        t->tgen = tg;
+    if (!v || !l || !d || !g || !nx || !pv || !is || !iv || !tc || !tg)
         return 0;
     t->cap = n;
     return 1;
+}
+
+/* Interval k = [node k − 1, node k] as dk_roots_sampled() looks at it:
+ * both ends finite, and a sign change, a zero at the left end, or a zero
+ * at the right end of the last interval. */
+static int
+interesting(const tracer *t, int k)
+{
+    double f0 = t->v[k - 1], f1 = t->v[k];
+    if (!isfinite(f0) || !isfinite(f1))
+        return 0;
+    return f0 == 0 || f0 * f1 < 0 || (k == t->p.nscan && f1 == 0);
+}
+
+/* Bring the interval list up to date with the nodes evaluated since. */
+static void
+update_intervals(tracer *t)
+{
+    int n = t->p.nscan + 1;
+    for (int a = 0; a < t->ntch; a++)
+        for (int k = t->tch[a]; k <= t->tch[a] + 1; k++) {
+            if (k < 1 || k >= n)
+                continue;
+            int now = interesting(t, k);
+            if (now == t->ist[k])
+                continue;
+            t->ist[k] = (unsigned char)now;
+            int pos = 0;
+            while (pos < t->niv && t->iv[pos] < k)
+                pos++;
+            if (now) {
+                memmove(t->iv + pos + 1, t->iv + pos,
+                        (t->niv - pos) * sizeof *t->iv);
+                t->iv[pos] = k;
+                t->niv++;
+            } else {
+                memmove(t->iv + pos, t->iv + pos + 1,
+                        (t->niv - pos - 1) * sizeof *t->iv);
+                t->niv--;
+            }
+        }
+    t->ntch = 0;
+    t->gen++;
 }
 
 /* The predicted root of branch @b at the next point. */
@@ -194,15 +301,17 @@ keep(tracer *t, int from, double r, double slope)
 
 /*
  * Newton's method (secant where no derivative is known) from @y0, kept
- * inside [a, b]. Returns 1 with *root when a step below a quarter of the
- * solver's tolerance is taken; 0 when a step leaves the interval or it
- * does not converge.
+ * inside [a, b]. Returns 1 with *root when a step below the solver's
+ * tolerance is taken (the root is then the stepped point, whose error is
+ * of the order of the step squared over the scale of the curvature: far
+ * below the tolerance); 0 when a step leaves the interval or it does not
+ * converge.
  */
 static int
 newton(tracer *t, double a, double b, double y0, double slope0,
        double *root, double *slope)
 {
-    double tol = 0.25 * t->p.xtol;
+    double tol = t->p.xtol;
     double y = y0, yp = NAN, fp = NAN, s = slope0;
     for (int k = 0; k < NEWTON_STEPS; k++) {
         double d;
@@ -242,11 +351,22 @@ full_scan(tracer *t, int i, double *roots, int *nr, int *born,
         return dk_error_set(err, DK_ENOMEM, "out of memory");
     t->nscan = t->p.nscan;
     t->st.full_scans++;
+    for (int k = 0; k < t->nbucket; k++)
+        t->head[k] = -1;
     for (int j = 0; j < n; j++) {
         t->last[j] = -1;
         t->gap[j] = 1;
+        t->due[j] = -1;
+        t->tgen[j] = t->gen;   /* not recorded: the list is rebuilt */
         eval_node(t, j, i);
     }
+    t->ntch = 0;
+    t->gen++;
+    t->niv = 0;
+    t->ist[0] = 0;
+    for (int k = 1; k < n; k++)
+        if ((t->ist[k] = (unsigned char)interesting(t, k)))
+            t->iv[t->niv++] = k;
     dk_status s = dk_roots_sampled(eval_fn, t, t->p.lo, t->p.hi, t->p.nscan,
                                    t->v, t->p.xtol, roots, t->p.maxroots,
                                    nr, err);
@@ -286,9 +406,11 @@ continue_roots(tracer *t, int i, double *roots, int *nr, int *born,
                int *rescan, dk_error *err)
 {
     int n = t->p.nscan + 1;
-    for (int j = 0; j < n; j++)
-        if (t->due[j] <= i)
-            eval_node(t, j, i);
+    /* The nodes due at this point: deadlines lie 1 to maxskip points
+     * ahead, so the bucket of point i holds exactly them. */
+    int bucket = i % t->nbucket;
+    while (t->head[bucket] >= 0)
+        eval_node(t, t->head[bucket], i);
     double pred[MAX_TRACK];
     for (int k = 0; k < t->nb; k++) {
         pred[k] = predict(&t->b[k]);
@@ -296,56 +418,65 @@ continue_roots(tracer *t, int i, double *roots, int *nr, int *born,
     }
     t->nnext = 0;
     *nr = 0;
-    double x0 = t->p.lo, f0 = t->v[0];
-    for (int j = 1; j < n && *nr < t->p.maxroots; j++) {
+    update_intervals(t);
+    /* The intervals to look at, as dk_roots_sampled() would find them
+     * walking the whole grid (a copy: refreshing nodes below may change
+     * the list, for the next point). */
+    int list[MAX_TRACK * 4], niv = t->niv;
+    if (niv > (int)(sizeof list / sizeof list[0])) {
+        *rescan = 1;   /* a pathological grid: scan it whole */
+        return DK_OK;
+    }
+    memcpy(list, t->iv, niv * sizeof *list);
+    for (int a = 0; a < niv && *nr < t->p.maxroots; a++) {
+        int j = list[a];
+        double x0 = node_y(t, j - 1), f0 = t->v[j - 1];
         double x1 = node_y(t, j), f1 = t->v[j];
-        if (isfinite(f0) && isfinite(f1)) {
-            double r = NAN, slope = NAN;
-            int from = -1;
-            if (f0 == 0) {
-                if (*nr == 0 || roots[*nr - 1] != x0)
+        if (!isfinite(f0) || !isfinite(f1))
+            continue;
+        double r = NAN, slope = NAN;
+        int from = -1;
+        if (f0 == 0) {
+            if (*nr == 0 || roots[*nr - 1] != x0)
+                r = x0;
+        } else if (f0 * f1 < 0) {
+            from = branch_for(t, x0, x1, pred);
+            double g = from >= 0 ? fmin(fmax(pred[from], x0), x1) : NAN;
+            if (from < 0 ||
+                !newton(t, x0, x1, g, t->b[from].slope, &r, &slope)) {
+                /* Brent on the interval, with fresh ends. */
+                eval_node(t, j - 1, i);
+                eval_node(t, j, i);
+                double fa = t->v[j - 1], fb = t->v[j];
+                f1 = fb;
+                if (!(isfinite(fa) && isfinite(fb) && fa * fb <= 0)) {
+                    *rescan = 1;
+                    return DK_OK;
+                }
+                if (fa == 0)
                     r = x0;
-            } else if (f0 * f1 < 0) {
-                from = branch_for(t, x0, x1, pred);
-                double g = from >= 0 ? fmin(fmax(pred[from], x0), x1) : NAN;
-                if (from < 0 ||
-                    !newton(t, x0, x1, g, t->b[from].slope, &r, &slope)) {
-                    /* Brent on the interval, with fresh ends. */
-                    eval_node(t, j - 1, i);
-                    eval_node(t, j, i);
-                    double a = t->v[j - 1], b = t->v[j];
-                    f1 = b;
-                    if (!(isfinite(a) && isfinite(b) && a * b <= 0)) {
-                        *rescan = 1;
-                        return DK_OK;
-                    }
-                    if (a == 0)
-                        r = x0;
-                    else if (b == 0)
-                        r = x1;
-                    else {
-                        dk_status s = dk_root_bracketed(eval_fn, t, x0, x1,
-                                                        t->p.xtol, &r, err);
-                        if (s)
-                            return s;
-                    }
+                else if (fb == 0)
+                    r = x1;
+                else {
+                    dk_status s = dk_root_bracketed(eval_fn, t, x0, x1,
+                                                    t->p.xtol, &r, err);
+                    if (s)
+                        return s;
                 }
             }
-            if (isfinite(r)) {
-                born[*nr] = from < 0;
-                roots[(*nr)++] = r;
-                if (from >= 0)
-                    t->b[from].used = 1;
-                keep(t, from, r, slope);
-            }
-            if (j == n - 1 && f1 == 0 && *nr < t->p.maxroots) {
-                born[*nr] = 1;
-                roots[(*nr)++] = x1;
-                keep(t, -1, x1, NAN);
-            }
         }
-        x0 = x1;
-        f0 = f1;
+        if (isfinite(r)) {
+            born[*nr] = from < 0;
+            roots[(*nr)++] = r;
+            if (from >= 0)
+                t->b[from].used = 1;
+            keep(t, from, r, slope);
+        }
+        if (j == n - 1 && f1 == 0 && *nr < t->p.maxroots) {
+            born[*nr] = 1;
+            roots[(*nr)++] = x1;
+            keep(t, -1, x1, NAN);
+        }
     }
     return DK_OK;
 }
@@ -582,6 +713,12 @@ sweep_trace(dk_sweep *s, dk_var xv, const double *xs, int n, dk_var target,
     if (!t)
         return DK_ENOMEM;
     t->maxskip = n / SKIP_PARTS > 1 ? n / SKIP_PARTS : 1;
+    t->nbucket = t->maxskip + 1;
+    t->head = malloc(t->nbucket * sizeof *t->head);
+    if (!t->head) {
+        free(t);
+        return DK_ENOMEM;
+    }
     for (int i = 0; i < n; i++) {
         dk_error e = {0};
         trace_point *pt = &pts[i];
@@ -645,6 +782,8 @@ sweep_trace(dk_sweep *s, dk_var xv, const double *xs, int n, dk_var target,
     if (stats)
         *stats = t->st;
     free(t->v), free(t->last), free(t->due), free(t->gap);
+    free(t->lnext), free(t->lprev), free(t->head);
+    free(t->ist), free(t->iv), free(t->tch), free(t->tgen);
     free(t);
     free(scratch);
     if (ret && folds) {

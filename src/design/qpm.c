@@ -167,26 +167,34 @@ dk_qpm_fast_dk(const dk_qpm_fast *f, const dk_waves *w)
 }
 
 double
-dk_qpm_fast_dk_share(const dk_qpm_fast *f, double pump_um, double x,
-                     double *d_dx)
+dk_qpm_fast_dk_share_np(const dk_qpm_fast *f, double pump_um, double np,
+                        double x, double *d_dx)
 {
     dk_waves w = dk_waves_of_share(pump_um, x);
-    if (!d_dx)
-        return dk_qpm_fast_dk(f, &w);
-    double dp, ds, di;
-    double np = dk_nfast_n_d(&f->ax[2], w.pump_um, &dp);
-    double ns = dk_nfast_n_d(&f->ax[0], w.signal_um, &ds);
-    double ni = dk_nfast_n_d(&f->ax[1], w.idler_um, &di);
+    double ds = 0, di = 0;
+    double ns = dk_nfast_n_d(&f->ax[0], w.signal_um, d_dx ? &ds : NULL);
+    double ni = dk_nfast_n_d(&f->ax[1], w.idler_um, d_dx ? &di : NULL);
     double dk = 2 * M_PI * (np / w.pump_um - ns / w.signal_um -
                             ni / w.idler_um);
     if (!isfinite(dk)) {
-        *d_dx = NAN;
+        if (d_dx)
+            *d_dx = NAN;
         return NAN;
     }
-    double ngs = ns - w.signal_um * ds, ngi = ni - w.idler_um * di;
-    double slope = 2 * M_PI * (ngi - ngs) / pump_um;
-    *d_dx = dk < 0 ? -slope : slope;
+    if (d_dx) {
+        double ngs = ns - w.signal_um * ds, ngi = ni - w.idler_um * di;
+        double slope = 2 * M_PI * (ngi - ngs) / pump_um;
+        *d_dx = dk < 0 ? -slope : slope;
+    }
     return fabs(dk) - f->grating_k;
+}
+
+double
+dk_qpm_fast_dk_share(const dk_qpm_fast *f, double pump_um, double x,
+                     double *d_dx)
+{
+    return dk_qpm_fast_dk_share_np(f, pump_um,
+                                   dk_nfast_n(&f->ax[2], pump_um), x, d_dx);
 }
 
 /* Λ(T) / Λ_w from thermal expansion along the grating axis. */

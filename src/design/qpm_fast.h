@@ -51,4 +51,10 @@ double dk_qpm_fast_dk(const dk_qpm_fast *f, const dk_waves *w);
 double dk_qpm_fast_dk_share(const dk_qpm_fast *f, double pump_um, double x,
                             double *d_dx);
 
+/* The same with the pump's index @np (dk_nfast_n() of f->ax[2] at
+ * @pump_um) given: a search over x at a fixed pump computes it once.
+ * The same bits as dk_qpm_fast_dk_share(). */
+double dk_qpm_fast_dk_share_np(const dk_qpm_fast *f, double pump_um,
+                               double np, double x, double *d_dx);
+
 #endif /* DK_QPM_FAST_H */

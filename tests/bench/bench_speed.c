@@ -170,7 +170,7 @@ static void
 bench_curve(void)
 {
     static dk_design d;
-    qpm_design(&d, (dk_waves){1.064, 0, 0}, 100, 30, 0);
+    qpm_design(&d, (dk_waves){1.064, 0, 0}, 100, 30, NAN);
     static dk_sweep s;
     int n = 10000;
     double *xs = malloc(n * sizeof *xs);
