@@ -112,7 +112,7 @@ $(BUILD)/bench_%: tests/bench/bench_%.c $(BUILD)/libdeltak.a
 
 # Speed on this machine: engine throughput against a NumPy/SciPy script of
 # the same jobs, latency of whole commands, figure rendering.
-bench: $(BUILD)/deltak $(BUILD)/bench_index $(BUILD)/bench_speed
+bench: $(BUILD)/deltak $(BUILD)/bench_index $(BUILD)/bench_speed $(BUILD)/bench_run
 	@sh tests/bench/run.sh $(BUILD)/deltak
 
 plots: $(BUILD)/deltak

@@ -488,15 +488,20 @@ map_line(const map_job *jb, scratch *sc, int o, size_t *defined)
         sc->same[1] = all_same(sc->li, len);
         sc->same[2] = all_same(sc->lp, len);
     }
+    /* A row's values go straight to the map; a column's through z. */
+    double *z = jb->by_column ? sc->z : res->z + (size_t)o * res->nx;
     int compiled = 0;
     if (qpm) {
         dk_qpm_fast f;
         if (isfinite(temp) && dk_qpm_fast_init(&d->qpm, temp, 0, &f) == DK_OK) {
-            indices(&f.ax[0], sc->ls, sc->ns, sc->work, len, sc->same[0]);
-            indices(&f.ax[1], sc->li, sc->ni, sc->work, len, sc->same[1]);
-            indices(&f.ax[2], sc->lp, sc->np, sc->work, len, sc->same[2]);
+            indices(dk_qpm_fast_axis(&f, 0), sc->ls, sc->ns, sc->work, len,
+                    sc->same[0]);
+            indices(dk_qpm_fast_axis(&f, 1), sc->li, sc->ni, sc->work, len,
+                    sc->same[1]);
+            indices(dk_qpm_fast_axis(&f, 2), sc->lp, sc->np, sc->work, len,
+                    sc->same[2]);
             qpm_line(sc->rs, sc->ri, sc->rp, sc->ns, sc->ni, sc->np, sc->kg,
-                     sc->lum, sc->z, (size_t)len);
+                     sc->lum, z, (size_t)len);
             compiled = 1;
         }
     } else {
@@ -506,7 +511,7 @@ map_line(const map_job *jb, scratch *sc, int o, size_t *defined)
         if (isfinite(temp) && dk_angle_fast_init(&pb, d->pol, &f) == DK_OK) {
             dk_angle_fast_batch(&f, d->theta_rad, d->phi_rad, sc->ls, sc->li,
                                 sc->lp, sc->dk, sc->work, (size_t)len);
-            dk_sinc2_batch(sc->dk, sc->lum, sc->z, (size_t)len);
+            dk_sinc2_batch(sc->dk, sc->lum, z, (size_t)len);
             compiled = 1;
         }
     }
@@ -530,15 +535,14 @@ map_line(const map_job *jb, scratch *sc, int o, size_t *defined)
                                 : dk_angle_delta_k(&pb, d->pol, d->theta_rad,
                                                    d->phi_rad);
             }
-            sc->z[q] = isfinite(sc->dk[q]) ? dk_sinc2(sc->dk[q], sc->lum[q])
-                                          : NAN;
+            z[q] = isfinite(sc->dk[q]) ? dk_sinc2(sc->dk[q], sc->lum[q])
+                                       : NAN;
         }
     unsigned tf = temp_flag(&jb->rg, temp);
     size_t def;
     if (!jb->by_column) {
         size_t c0 = (size_t)o * res->nx;
-        memcpy(res->z + c0, sc->z, (size_t)len * sizeof *sc->z);
-        def = finish_line(&jb->rg, tf, sc->ls, sc->li, sc->lp, sc->z,
+        def = finish_line(&jb->rg, tf, sc->ls, sc->li, sc->lp, z,
                           jb->flags + c0, res->cell + c0, sc->work, len);
     } else {
         unsigned char *cell = (unsigned char *)sc->ns;   /* free by now */

@@ -122,7 +122,7 @@ sweep_problem_setup(sweep_problem *p, dk_sweep *s, dk_var target)
             p->maxroots = 64;
             compile(p, d);
             if (p->fast)
-                p->np = dk_nfast_n(&p->qf.ax[2], pump);
+                p->np = dk_nfast_n(dk_qpm_fast_axis(&p->qf, 2), pump);
             break;
         } else {
             p->kind = SP_ANGLE_SHARE;

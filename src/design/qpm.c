@@ -130,22 +130,24 @@ dk_qpm_fast_init(const dk_qpm *q, double temp_c, double period_um,
     const double *tr = q->crystal->transparency_um;
     f->temp_c = temp_c;
     f->grating_k = period_um > 0 ? dk_qpm_grating_k(q, period_um, temp_c) : 0;
+    int nax = 0;
     for (int k = 0; k < 3; k++) {
         int same = -1;
         for (int j = 0; j < k; j++)
             if (q->pol[j] == q->pol[k])
                 same = j;
-        if (same >= 0) {
-            f->ax[k] = f->ax[same];
+        if (same >= 0) {   /* one axis for waves alike: compiled once */
+            f->axi[k] = f->axi[same];
             continue;
         }
         const dk_axis_formula *ax = dk_set_find_axis(q->set, q->pol[k]);
         if (!ax)
             return DK_ENOTFOUND;
         dk_status s = dk_nfast_compile(q->set, ax, temp_c, tr[0], tr[1],
-                                       &f->ax[k]);
+                                       &f->ax[nax]);
         if (s)
             return s;
+        f->axi[k] = nax++;
     }
     return DK_OK;
 }
@@ -153,9 +155,9 @@ dk_qpm_fast_init(const dk_qpm *q, double temp_c, double period_um,
 double
 dk_qpm_fast_material(const dk_qpm_fast *f, const dk_waves *w)
 {
-    double np = dk_nfast_n(&f->ax[2], w->pump_um);
-    double ns = dk_nfast_n(&f->ax[0], w->signal_um);
-    double ni = dk_nfast_n(&f->ax[1], w->idler_um);
+    double np = dk_nfast_n(dk_qpm_fast_axis(f, 2), w->pump_um);
+    double ns = dk_nfast_n(dk_qpm_fast_axis(f, 0), w->signal_um);
+    double ni = dk_nfast_n(dk_qpm_fast_axis(f, 1), w->idler_um);
     return 2 * M_PI * (np / w->pump_um - ns / w->signal_um - ni / w->idler_um);
 }
 
@@ -172,8 +174,10 @@ dk_qpm_fast_dk_share_np(const dk_qpm_fast *f, double pump_um, double np,
 {
     dk_waves w = dk_waves_of_share(pump_um, x);
     double ds = 0, di = 0;
-    double ns = dk_nfast_n_d(&f->ax[0], w.signal_um, d_dx ? &ds : NULL);
-    double ni = dk_nfast_n_d(&f->ax[1], w.idler_um, d_dx ? &di : NULL);
+    double ns = dk_nfast_n_d(dk_qpm_fast_axis(f, 0), w.signal_um,
+                             d_dx ? &ds : NULL);
+    double ni = dk_nfast_n_d(dk_qpm_fast_axis(f, 1), w.idler_um,
+                             d_dx ? &di : NULL);
     double dk = 2 * M_PI * (np / w.pump_um - ns / w.signal_um -
                             ni / w.idler_um);
     if (!isfinite(dk)) {
@@ -194,7 +198,9 @@ dk_qpm_fast_dk_share(const dk_qpm_fast *f, double pump_um, double x,
                      double *d_dx)
 {
     return dk_qpm_fast_dk_share_np(f, pump_um,
-                                   dk_nfast_n(&f->ax[2], pump_um), x, d_dx);
+                                   dk_nfast_n(dk_qpm_fast_axis(f, 2),
+                                              pump_um),
+                                   x, d_dx);
 }
 
 /* Λ(T) / Λ_w from thermal expansion along the grating axis. */

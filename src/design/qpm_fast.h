@@ -25,11 +25,19 @@
 #define DK_QPM_FREQ_TOL 1e-12
 
 typedef struct dk_qpm_fast {
-    dk_nfast ax[3];     /* signal, idler, pump at temp_c, NaN outside the
+    dk_nfast ax[3];     /* the distinct axes at temp_c, NaN outside the
                          * transparency range */
+    int axi[3];         /* the axis of signal, idler, pump in ax */
     double grating_k;   /* 2πm/Λ(T) of the period given, rad/µm */
     double temp_c;
 } dk_qpm_fast;
+
+/* The compiled axis of wave @k (0 signal, 1 idler, 2 pump). */
+static inline const dk_nfast *
+dk_qpm_fast_axis(const dk_qpm_fast *f, int k)
+{
+    return &f->ax[f->axi[k]];
+}
 
 /*
  * dk_qpm_fast_init:
@@ -51,7 +59,7 @@ double dk_qpm_fast_dk(const dk_qpm_fast *f, const dk_waves *w);
 double dk_qpm_fast_dk_share(const dk_qpm_fast *f, double pump_um, double x,
                             double *d_dx);
 
-/* The same with the pump's index @np (dk_nfast_n() of f->ax[2] at
+/* The same with the pump's index @np (dk_nfast_n() of the pump's axis at
  * @pump_um) given: a search over x at a fixed pump computes it once.
  * The same bits as dk_qpm_fast_dk_share(). */
 double dk_qpm_fast_dk_share_np(const dk_qpm_fast *f, double pump_um,
