@@ -427,39 +427,119 @@ add_solve_series(dk_sweep_result *res, const dk_sweep_spec *sp, int f,
     return DK_OK;
 }
 
-/* A solve curve through the tracer. */
-static dk_status
-solve_curves(const dk_design *base, const dk_sweep_spec *sp, dk_sweep *s,
-             const double *xs, point *pts, dk_sweep_result *res,
-             dk_range_span *ex, long *valued, dk_error *first, dk_error *err)
+/* What one family member of a solve sweep gives. */
+typedef struct member {
+    dk_status status;
+    dk_error err;           /* why, when status is not DK_OK */
+    dk_error first;         /* its first point without a value */
+    dk_sweep_result part;   /* its series */
+    dk_range_span ex;
+    long valued;
+} member;
+
+/* One family member (@f; −1: no family) traced with the scratch @s, @pts
+ * and @tp, its series into m->part. */
+static void
+solve_member(const dk_design *base, const dk_sweep_spec *sp, int f,
+             const double *xs, dk_sweep *s, point *pts, trace_point *tp,
+             member *m)
 {
-    trace_point *tp = malloc((size_t)sp->nx * sizeof *tp);
-    if (!tp)
-        return dk_error_set(err, DK_ENOMEM, "out of memory");
-    dk_status st = DK_OK;
-    int nfam = sp->nfamily ? sp->nfamily : 1;
-    for (int f = 0; f < nfam && !st; f++) {
-        dk_sweep_init(s, base);
-        if (sp->nfamily &&
-            (st = dk_sweep_set(s, sp->family, sp->family_values[f], err)))
-            break;
-        for (int i = 0; i < sp->nx; i++)
-            pts[i].n = 0;
-        solve_ctx ctx = {sp, pts, ex, 0};
-        sweep_trace_opts opts = {1, solve_each, &ctx};
-        sweep_fold *folds = NULL;
-        int nfolds = 0;
-        st = sweep_trace(s, sp->x, xs, sp->nx, sp->target, &opts, tp, &folds,
-                         &nfolds, first, NULL);
-        if (st == DK_ENOMEM)
-            st = dk_error_set(err, DK_ENOMEM, "out of memory");
-        *valued += ctx.valued;
-        if (!st)
-            st = add_solve_series(res, sp, f, xs, pts, folds, nfolds, ex,
-                                  err);
-        free(folds);
+    memset(&m->part, 0, sizeof m->part);
+    dk_range_span_init(&m->ex);
+    dk_sweep_init(s, base);
+    if (f >= 0 &&
+        (m->status = dk_sweep_set(s, sp->family, sp->family_values[f],
+                                  &m->err)))
+        return;
+    for (int i = 0; i < sp->nx; i++)
+        pts[i].n = 0;
+    solve_ctx ctx = {sp, pts, &m->ex, 0};
+    sweep_trace_opts opts = {1, solve_each, &ctx};
+    sweep_fold *folds = NULL;
+    int nfolds = 0;
+    m->status = sweep_trace(s, sp->x, xs, sp->nx, sp->target, &opts, tp,
+                            &folds, &nfolds, &m->first, NULL);
+    if (m->status == DK_ENOMEM)
+        m->status = dk_error_set(&m->err, DK_ENOMEM, "out of memory");
+    m->valued = ctx.valued;
+    if (!m->status)
+        m->status = add_solve_series(&m->part, sp, f < 0 ? 0 : f, xs, pts,
+                                     folds, nfolds, &m->ex, &m->err);
+    free(folds);
+}
+
+/* Spans of flagged values: the union (minima, maxima). */
+static void
+span_merge(dk_range_span *into, const dk_range_span *from)
+{
+    into->flags |= from->flags;
+    for (int k = 0; k < 3; k++) {
+        into->lam_min[k] = fmin(into->lam_min[k], from->lam_min[k]);
+        into->lam_max[k] = fmax(into->lam_max[k], from->lam_max[k]);
     }
-    free(tp);
+    into->t_min = fmin(into->t_min, from->t_min);
+    into->t_max = fmax(into->t_max, from->t_max);
+}
+
+/*
+ * Solve curves through the tracer: the family members on all cores
+ * (each member on its own copy of the sweep; the result is the same
+ * whatever the number of threads), then their series in member order.
+ */
+static dk_status
+solve_curves(const dk_design *base, const dk_sweep_spec *sp,
+             const double *xs, dk_sweep_result *res, dk_range_span *ex,
+             long *valued, dk_error *first, dk_error *err)
+{
+    int nfam = sp->nfamily ? sp->nfamily : 1;
+    member *m = calloc((size_t)nfam, sizeof *m);
+    if (!m)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    int failed = 0;
+#pragma omp parallel if (nfam > 1) reduction(| : failed)
+    {
+        dk_sweep *s = malloc(sizeof *s);
+        point *pts = malloc((size_t)sp->nx * sizeof *pts);
+        trace_point *tp = malloc((size_t)sp->nx * sizeof *tp);
+        failed |= !s || !pts || !tp;
+#pragma omp for schedule(dynamic, 1)
+        for (int f = 0; f < nfam; f++)
+            if (s && pts && tp)
+                solve_member(base, sp, sp->nfamily ? f : -1, xs, s, pts, tp,
+                             &m[f]);
+        free(s), free(pts), free(tp);
+    }
+    dk_status st = failed ? dk_error_set(err, DK_ENOMEM, "out of memory")
+                          : DK_OK;
+    for (int f = 0; f < nfam; f++) {
+        if (!st && m[f].status)
+            st = m[f].status, *err = m[f].err;
+        if (!first->msg[0] && m[f].first.msg[0])
+            *first = m[f].first;
+        *valued += m[f].valued;
+        span_merge(ex, &m[f].ex);
+        /* Move the member's series into the result, in order. */
+        dk_sweep_result *part = &m[f].part;
+        if (!st && part->nseries) {
+            dk_series *grown =
+                realloc(res->series, (size_t)(res->nseries + part->nseries) *
+                                         sizeof *grown);
+            if (!grown) {
+                st = dk_error_set(err, DK_ENOMEM, "out of memory");
+            } else {
+                res->series = grown;
+                memcpy(res->series + res->nseries, part->series,
+                       part->nseries * sizeof *grown);
+                res->nseries += part->nseries;
+                res->flags |= part->flags;
+                free(part->series);
+                part->series = NULL;
+                part->nseries = 0;
+            }
+        }
+        dk_sweep_result_free(part);
+    }
+    free(m);
     return st;
 }
 
@@ -488,8 +568,7 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
     long valued = 0;
     int nfam = sp->nfamily ? sp->nfamily : 1;
     if (sp->quantity == DK_SWEEP_SOLVE) {
-        st = solve_curves(base, sp, s, xs, pts, res, &ex, &valued, &first,
-                          err);
+        st = solve_curves(base, sp, xs, res, &ex, &valued, &first, err);
         nfam = 0;
     }
     for (int f = 0; f < nfam && !st; f++) {
