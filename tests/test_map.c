@@ -158,6 +158,61 @@ batch_matches_cells(void **state)
     }
 }
 
+/* sinc² curves and their families (rows of the batch engine) against
+ * the point-by-point evaluation. */
+static void
+sinc2_curves_match(void **state)
+{
+    (void)state;
+    static dk_sweep s;
+    for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++) {
+        const map_case *c = &cases[k];
+        setup(c);
+        for (int fam = 0; fam < 2; fam++) {
+            dk_sweep_spec sp = {0};
+            sp.x = c->x, sp.x_lo = c->x_lo, sp.x_hi = c->x_hi, sp.nx = 73;
+            sp.quantity = DK_SWEEP_SINC2;
+            if (fam) {
+                sp.nfamily = 3;
+                sp.family = c->y;
+                for (int f = 0; f < 3; f++)
+                    sp.family_values[f] =
+                        c->y_lo + (c->y_hi - c->y_lo) * f / 2;
+            }
+            dk_sweep_result res;
+            dk_error err = {0};
+            dk_status st = dk_sweep_curves(&base, &sp, &res, &err);
+            if (st == DK_ENOROOT)
+                continue;   /* nothing defined: the paths agree on that */
+            assert_int_equal(st, DK_OK);
+            assert_int_equal(res.nseries, fam ? 3 : 1);
+            for (int f = 0; f < res.nseries; f++) {
+                dk_sweep_init(&s, &base);
+                if (fam)
+                    assert_int_equal(dk_sweep_set(&s, sp.family,
+                                                  sp.family_values[f], NULL),
+                                     DK_OK);
+                const dk_series *se = &res.series[f];
+                assert_int_equal(se->n, (size_t)sp.nx);
+                for (int i = 0; i < sp.nx; i++) {
+                    double z = NAN;
+                    if (!dk_sweep_set(&s, sp.x, se->x[i], NULL))
+                        z = dk_sweep_sinc2(&s);
+                    if (isnan(z)) {
+                        assert_true(isnan(se->y[i]));
+                        continue;
+                    }
+                    assert_within(se->y[i], z, 0, 1e-9);
+                    assert_int_equal(se->flags[i],
+                                     dk_design_range_flags(&s.d, &s.d.waves,
+                                                           s.d.temp_c));
+                }
+            }
+            dk_sweep_result_free(&res);
+        }
+    }
+}
+
 /* One thread or two: the same bits. */
 static void
 threads_agree(void **state)
@@ -259,6 +314,7 @@ main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(batch_matches_cells),
+        cmocka_unit_test(sinc2_curves_match),
         cmocka_unit_test(threads_agree),
         cmocka_unit_test(ridge_matches_solver),
         cmocka_unit_test(sinc2_matches),

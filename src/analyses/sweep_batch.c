@@ -606,27 +606,27 @@ notes_in_order(const map_job *jb)
     res->flags |= seen;
 }
 
-dk_status
-sweep_map_batch(const dk_design *base, const dk_map_spec *sp,
-                dk_map_result *res, int *done, size_t *defined)
+int
+sweep_batch_allows(const dk_design *base, dk_var x, dk_var y)
 {
-    *done = 0;
+    return batch_var(base, x) && batch_var(base, y) &&
+           (base->scheme == DK_SCHEME_QPM ||
+            (base->scheme == DK_SCHEME_ANGLE && base->angle.alpha_rad == 0));
+}
+
+dk_status
+sweep_cells_batch(const dk_design *base, const dk_map_spec *sp,
+                  dk_map_result *res, unsigned char *flags, size_t *defined)
+{
     *defined = 0;
-    if (!batch_var(base, sp->x) || !batch_var(base, sp->y) ||
-        (base->scheme == DK_SCHEME_ANGLE && base->angle.alpha_rad != 0) ||
-        (base->scheme != DK_SCHEME_QPM && base->scheme != DK_SCHEME_ANGLE))
-        return DK_OK;
-    map_job jb = {.d = base, .sp = sp, .res = res,
+    map_job jb = {.d = base, .sp = sp, .res = res, .flags = flags,
                   .by_column = sp->x == DK_VAR_TEMP};
     ranges_of(base, &jb.rg);
     jb.nlines = jb.by_column ? sp->nx : sp->ny;
     jb.len = jb.by_column ? sp->ny : sp->nx;
-    jb.flags = malloc((size_t)sp->nx * sp->ny);
     jb.ystate = malloc((size_t)sp->ny * sizeof *jb.ystate);
-    if (!jb.flags || !jb.ystate) {
-        free(jb.flags), free(jb.ystate);
+    if (!jb.ystate)
         return DK_ENOMEM;
-    }
     for (int j = 0; j < sp->ny; j++) {
         cell_state c = {base->waves, base->held, base->temp_c,
                         base->period_um, base->length_mm, 1};
@@ -647,13 +647,56 @@ sweep_map_batch(const dk_design *base, const dk_map_spec *sp,
         if (ok)
             scratch_free(&sc);
     }
-    if (!failed)
-        notes_in_order(&jb);
-    free(jb.flags);
     free(jb.ystate);
     if (failed)
         return DK_ENOMEM;
     *defined = def;
-    *done = 1;
     return DK_OK;
+}
+
+int
+sweep_cell_state(const dk_design *base, dk_var y, double yval, dk_var x,
+                 double xval, dk_waves *w, double *temp_c)
+{
+    cell_state c = {base->waves, base->held, base->temp_c, base->period_um,
+                    base->length_mm, 1};
+    apply(&c, base->shg, y, yval);
+    if (c.ok)
+        apply(&c, base->shg, x, xval);
+    *w = c.w;
+    *temp_c = c.temp_c;
+    return c.ok;
+}
+
+dk_status
+sweep_map_batch(const dk_design *base, const dk_map_spec *sp,
+                dk_map_result *res, int *done, size_t *defined)
+{
+    *done = 0;
+    *defined = 0;
+    if (!sweep_batch_allows(base, sp->x, sp->y))
+        return DK_OK;
+    unsigned char *flags = malloc((size_t)sp->nx * sp->ny);
+    if (!flags)
+        return DK_ENOMEM;
+    dk_status st = sweep_cells_batch(base, sp, res, flags, defined);
+    if (!st) {
+        map_job jb = {.d = base, .sp = sp, .res = res, .flags = flags};
+        jb.ystate = malloc((size_t)sp->ny * sizeof *jb.ystate);
+        if (!jb.ystate) {
+            free(flags);
+            return DK_ENOMEM;
+        }
+        for (int j = 0; j < sp->ny; j++) {
+            cell_state c = {base->waves, base->held, base->temp_c,
+                            base->period_um, base->length_mm, 1};
+            apply(&c, base->shg, sp->y, res->y[j]);
+            jb.ystate[j] = c;
+        }
+        notes_in_order(&jb);
+        free(jb.ystate);
+        *done = 1;
+    }
+    free(flags);
+    return st;
 }

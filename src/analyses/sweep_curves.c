@@ -543,6 +543,82 @@ solve_curves(const dk_design *base, const dk_sweep_spec *sp,
     return st;
 }
 
+/*
+ * sinc² curves by the batch engine (sweep_batch.c): the family members
+ * are the rows of a map over x (without a family, one row at the
+ * design's own temperature, which leaves the state as it is). Returns
+ * DK_OK with *done = 0 when the design does not allow it.
+ */
+static dk_status
+sinc2_curves(const dk_design *base, const dk_sweep_spec *sp,
+             const double *xs, dk_sweep_result *res, dk_range_span *ex,
+             long *valued, dk_error *first, int *done, dk_error *err)
+{
+    dk_var yv = sp->nfamily ? sp->family : DK_VAR_TEMP;
+    *done = 0;
+    if (!sweep_batch_allows(base, sp->x, yv))
+        return DK_OK;
+    int ny = sp->nfamily ? sp->nfamily : 1;
+    double yvals[DK_SWEEP_MAX_FAMILY];
+    for (int f = 0; f < ny; f++)
+        yvals[f] = sp->nfamily ? sp->family_values[f] : base->temp_c;
+    size_t cells = (size_t)sp->nx * ny;
+    dk_map_result m = {0};
+    m.nx = sp->nx, m.ny = ny;
+    m.x = (double *)xs, m.y = yvals;
+    m.z = malloc(cells * sizeof *m.z);
+    m.cell = malloc(cells);
+    unsigned char *flags = malloc(cells);
+    dk_map_spec ms = {sp->x, yv, sp->x_lo, sp->x_hi, 0, 0, sp->nx, ny};
+    size_t def;
+    dk_status st = !m.z || !m.cell || !flags
+                       ? DK_ENOMEM
+                       : sweep_cells_batch(base, &ms, &m, flags, &def);
+    dk_sweep *scratch = NULL;
+    for (int f = 0; !st && f < ny; f++) {
+        dk_series *s = new_series(res, (size_t)sp->nx);
+        if (!s) {
+            st = DK_ENOMEM;
+            break;
+        }
+        s->family = sp->nfamily ? f : -1;
+        s->branch = 0;
+        if (sp->nfamily)
+            family_label(sp->family, sp->family_values[f], s->label,
+                         sizeof s->label);
+        long member_valued = 0;
+        for (int i = 0; i < sp->nx; i++) {
+            size_t c = (size_t)f * sp->nx + i;
+            s->x[i] = xs[i];
+            s->y[i] = m.z[c];
+            s->flags[i] = isnan(m.z[c]) ? 0 : flags[c];
+            res->flags |= s->flags[i];
+            member_valued += !isnan(m.z[c]);
+            dk_waves w;
+            double t;
+            if (s->flags[i] &&
+                sweep_cell_state(base, yv, yvals[f], sp->x, xs[i], &w, &t))
+                dk_range_span_add(ex, s->flags[i], &w, t);
+            /* The first point without a value that dk_sweep_set()
+             * refuses gives the message, as the point-by-point loop. */
+            if (isnan(m.z[c]) && !first->msg[0] &&
+                (scratch || (scratch = malloc(sizeof *scratch)))) {
+                dk_sweep_init(scratch, base);
+                if (!sp->nfamily ||
+                    !dk_sweep_set(scratch, yv, yvals[f], first))
+                    dk_sweep_set(scratch, sp->x, xs[i], first);
+            }
+        }
+        *valued += member_valued;
+    }
+    free(scratch);
+    free(m.z), free(m.cell), free(flags);
+    if (st == DK_ENOMEM)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    *done = 1;
+    return DK_OK;
+}
+
 dk_status
 dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
                 dk_sweep_result *res, dk_error *err)
@@ -570,6 +646,12 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
     if (sp->quantity == DK_SWEEP_SOLVE) {
         st = solve_curves(base, sp, xs, res, &ex, &valued, &first, err);
         nfam = 0;
+    } else if (sp->quantity == DK_SWEEP_SINC2) {
+        int done = 0;
+        st = sinc2_curves(base, sp, xs, res, &ex, &valued, &first, &done,
+                          err);
+        if (done)
+            nfam = 0;
     }
     for (int f = 0; f < nfam && !st; f++) {
         dk_sweep_init(s, base);

@@ -155,6 +155,25 @@ dk_status sweep_scan_each(dk_sweep *s, dk_var xv, const double *xs, int n,
 dk_status sweep_map_batch(const dk_design *base, const dk_map_spec *sp,
                           dk_map_result *res, int *done, size_t *defined);
 
+/* 1 when the batch engine takes a map of @x and @y of @base. */
+int sweep_batch_allows(const dk_design *base, dk_var x, dk_var y);
+
+/*
+ * sweep_cells_batch:
+ * The cells of @res (x, y filled; z and cell allocated) by the batch
+ * engine, with the DK_RANGE_* flags of each cell in @flags (nx·ny, 0
+ * where undefined); no notes. The caller has checked
+ * sweep_batch_allows(). Returns DK_OK or DK_ENOMEM.
+ */
+dk_status sweep_cells_batch(const dk_design *base, const dk_map_spec *sp,
+                            dk_map_result *res, unsigned char *flags,
+                            size_t *defined);
+
+/* The waves and temperature of a cell: @base with @y set to @yval, then
+ * @x to @xval, as dk_sweep_set() leaves them; 0 when a setting fails. */
+int sweep_cell_state(const dk_design *base, dk_var y, double yval, dk_var x,
+                     double xval, dk_waves *w, double *temp_c);
+
 /*
  * dk_sinc2_batch:
  * sinc²(Δk L/2) for @n mismatches (rad/µm) and lengths (µm), vectorised,
