@@ -12,6 +12,8 @@
 #define DK_TEST_WITH_DB
 #include "testutil.h"
 
+#include <unistd.h>
+
 #include "data/dispersion_batch.h"
 #include "deltak/material.h"
 #include "deltak/modes.h"
@@ -187,6 +189,55 @@ load_for_one_crystal(void **state)
     dk_db_free(all);
 }
 
+/* Copy @src to @dir/@name with line @from replaced by @to (NULL: as is). */
+static void
+copy_with(const char *src, const char *dir, const char *name,
+          const char *from, const char *to)
+{
+    char path[512], line[4096];
+    snprintf(path, sizeof path, "%s/%s", dir, name);
+    FILE *in = fopen(src, "r"), *out = fopen(path, "w");
+    assert_non_null(in);
+    assert_non_null(out);
+    while (fgets(line, sizeof line, in))
+        fputs(from && strncmp(line, from, strlen(from)) == 0 ? to : line,
+              out);
+    fclose(in);
+    fclose(out);
+}
+
+/* When the files' names are not plain, or a name is claimed twice, the
+ * one-crystal load is the full load, with its errors. */
+static void
+load_for_falls_back(void **state)
+{
+    (void)state;
+    char dir[] = "/tmp/dk-test-db-XXXXXX", src[512], path[512];
+    assert_non_null(mkdtemp(dir));
+    snprintf(src, sizeof src, "%s/mgo-linbo3.yaml", DK_CRYSTAL_DIR);
+    /* a second file claiming MgO:LN: the later one is refused */
+    copy_with(src, dir, "a.yaml", NULL, NULL);
+    copy_with(src, dir, "b.yaml", "id:", "id: Other\n");
+    dk_db *got = NULL;
+    assert_int_equal(dk_db_load_for(dir, "MgO:LN", &got, NULL), DK_OK);
+    assert_int_equal(got->ncrystals, 1);
+    assert_int_equal(got->nerrors, 1);
+    assert_non_null(strstr(got->errors[0], "already taken"));
+    dk_db_free(got);
+    /* aliases written as a block sequence: parsed in full */
+    snprintf(path, sizeof path, "%s/b.yaml", dir);
+    unlink(path);
+    copy_with(src, dir, "a.yaml", "aliases:",
+              "aliases:\n  - MgO:LN\n  - MgO:PPLN\n");
+    assert_int_equal(dk_db_load_for(dir, "MgO:PPLN", &got, NULL), DK_OK);
+    assert_int_equal(got->ncrystals, 1);
+    assert_non_null(dk_db_find(got, "MgO:PPLN"));
+    dk_db_free(got);
+    snprintf(path, sizeof path, "%s/a.yaml", dir);
+    unlink(path);
+    rmdir(dir);
+}
+
 int
 main(void)
 {
@@ -195,6 +246,7 @@ main(void)
         cmocka_unit_test(compiled_index_range),
         cmocka_unit_test(value_modes_match),
         cmocka_unit_test(load_for_one_crystal),
+        cmocka_unit_test(load_for_falls_back),
     };
     return cmocka_run_group_tests_name("batch", tests, db_setup, db_teardown);
 }

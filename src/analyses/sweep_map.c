@@ -47,7 +47,7 @@ check_spec(const dk_design *base, const dk_map_spec *sp, dk_error *err)
                             "a map of %d x %d cells exceeds the limit of %d "
                             "cells (about %d MB); use fewer points",
                             sp->nx, sp->ny, DK_MAP_MAX_CELLS,
-                            (int)((double)DK_MAP_MAX_CELLS * 9 / 1e6 + 0.5));
+                            (int)((double)DK_MAP_MAX_CELLS * 10 / 1e6 + 0.5));
     if (!isfinite(sp->x_lo) || !isfinite(sp->x_hi) || sp->x_lo == sp->x_hi ||
         !isfinite(sp->y_lo) || !isfinite(sp->y_hi) || sp->y_lo == sp->y_hi)
         return dk_error_set(err, DK_EINVAL,
