@@ -24,7 +24,7 @@
  *
  *   Roots. In each interval whose (known) end signs differ, the root is
  *   found by Newton's method from the prediction of the branch that was
- *   there (quadratic extrapolation of its last three roots), on exact
+ *   there (cubic extrapolation of its last four roots), on exact
  *   derivatives where the problem has them (the QPM signal share:
  *   dΔk/dx = 2π(n_g,i − n_g,s)/λp from the Taylor-arithmetic-free value
  *   and slope of the compiled formulas) and secant steps otherwise, kept
@@ -63,7 +63,7 @@
 #define GOLDEN_STEPS 60
 
 typedef struct branch {
-    double y[3];          /* roots at the last points, newest first */
+    double y[4];          /* roots at the last points, newest first */
     int nh;               /* how many of them */
     double slope;         /* df/dy at the last root (NAN unknown) */
     int used;             /* continued at the current point */
@@ -266,17 +266,19 @@ predict(const branch *b)
     switch (b->nh) {
     case 1: return b->y[0];
     case 2: return 2 * b->y[0] - b->y[1];
-    default: return 3 * b->y[0] - 3 * b->y[1] + b->y[2];
+    case 3: return 3 * b->y[0] - 3 * b->y[1] + b->y[2];
+    default: return 4 * b->y[0] - 6 * b->y[1] + 4 * b->y[2] - b->y[3];
     }
 }
 
 static void
 push(branch *b, double y, double slope)
 {
+    b->y[3] = b->y[2];
     b->y[2] = b->y[1];
     b->y[1] = b->y[0];
     b->y[0] = y;
-    b->nh = b->nh < 3 ? b->nh + 1 : 3;
+    b->nh = b->nh < 4 ? b->nh + 1 : 4;
     if (isfinite(slope))
         b->slope = slope;
 }
@@ -720,7 +722,9 @@ sweep_trace(dk_sweep *s, dk_var xv, const double *xs, int n, dk_var target,
         return DK_ENOMEM;
     }
     for (int i = 0; i < n; i++) {
-        dk_error e = {0};
+        dk_error e;   /* not zeroed: 0.5 kB a point; only the message */
+        e.status = DK_OK;
+        e.msg[0] = '\0';
         trace_point *pt = &pts[i];
         pt->n = 0;
         pt->status = DK_OK;

@@ -309,7 +309,16 @@ dk_nfast_n_d(const dk_nfast *f, double lam, double *dn_dl)
 {
     if (f->canonical) {
         const dk_nfast_canon *cf = &f->cf;
-        double n = canon_n(cf, lam, cf->npole, cf->neg, cf->thermo);
+        double n;
+        /* The shape as constants, as in the batch loops (same bits). */
+        if (cf->neg || cf->thermo)
+            n = canon_n(cf, lam, cf->npole, cf->neg, cf->thermo);
+        else if (cf->npole == 2)
+            n = canon_n(cf, lam, 2, 0, 0);
+        else if (cf->npole == 3)
+            n = canon_n(cf, lam, 3, 0, 0);
+        else
+            n = canon_n(cf, lam, cf->npole, 0, 0);
         if (dn_dl) {
             double d = isfinite(n) ? canon_dn(cf, lam, n) : NAN;
             *dn_dl = isfinite(d) ? d : NAN;
