@@ -6,7 +6,7 @@
 
 VERSION := 0.1.0
 CC      ?= gcc
-PKGS    := gsl cairo pangocairo yaml-0.1 json-c
+PKGS    := gsl cairo pangocairo yaml-0.1 json-c fftw3
 BUILD   := build
 DEPCHECK := $(BUILD)/.deps-ok
 # `make V=1` shows the full compiler lines.
@@ -31,8 +31,10 @@ ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) $(OPENMP) $(FPFLAGS) -
              -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
 LDLIBS_ALL = $(PKG_LIBS) -lm
 
-LIB_SRC := $(filter-out src/cli/%,$(wildcard src/*/*.c))
-CLI_SRC := $(wildcard src/cli/*.c)
+# The commands are part of the library too (deltak/command.h); only
+# main.c is the program's own.
+LIB_SRC := $(filter-out src/cli/main.c,$(wildcard src/*/*.c))
+CLI_SRC := src/cli/main.c
 LIB_OBJ := $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ := $(CLI_SRC:%.c=$(BUILD)/%.o)
 TEST_SRC := $(wildcard tests/test_*.c)
@@ -48,7 +50,7 @@ help:
 	@echo "make demo       run the demo scenarios on the shipped database"
 	@echo "make bench      measure speed (benchmarks never run in check)"
 	@echo "make plots      regenerate the figures in plots/"
-	@echo "make fuzz       fuzz the crystal loader (clang, FUZZ_SECONDS=60)"
+	@echo "make fuzz       fuzz parsers and loaders (needs clang; FUZZ_RUNS=1000000)"
 
 $(DEPCHECK): .ci/install-deps
 	@sh .ci/install-deps
@@ -112,23 +114,49 @@ $(BUILD)/bench_%: tests/bench/bench_%.c $(BUILD)/libdeltak.a
 
 # Speed on this machine: engine throughput against a NumPy/SciPy script of
 # the same jobs, latency of whole commands, figure rendering.
-bench: $(BUILD)/deltak $(BUILD)/bench_index $(BUILD)/bench_speed $(BUILD)/bench_run
+bench: $(BUILD)/deltak $(BUILD)/bench_index $(BUILD)/bench_speed \
+       $(BUILD)/bench_run $(BUILD)/bench_simulate
 	@sh tests/bench/run.sh $(BUILD)/deltak
 
 plots: $(BUILD)/deltak
 	@sh examples/plots.sh $(BUILD)/deltak plots
 
-# Open-ended fuzzing of the crystal loader (needs clang with libFuzzer).
-FUZZ_SECONDS ?= 60
-fuzz: | $(DEPCHECK)
-	@command -v clang >/dev/null || { echo "error: make fuzz needs clang (apt-get install clang)"; exit 1; }
-	@mkdir -p $(BUILD)/fuzz
-	clang -g -O1 -fsanitize=fuzzer,address,undefined -std=gnu17 -Iinclude -Isrc \
-	    $(PKG_CFLAGS) -DDK_VERSION='"$(VERSION)"' -o $(BUILD)/fuzz/fuzz_crystal \
-	    tests/fuzz/fuzz_crystal.c $(LIB_SRC) $(LDLIBS_ALL)
-	@mkdir -p $(BUILD)/fuzz/corpus
-	@cp crystals/*.yaml tests/data/bad/*.yaml $(BUILD)/fuzz/corpus/
-	$(BUILD)/fuzz/fuzz_crystal -max_total_time=$(FUZZ_SECONDS) $(BUILD)/fuzz/corpus
+# Fuzzing (not part of make check). Needs clang with libFuzzer (Debian:
+# apt-get install clang). Four targets (tests/fuzz/fuzz_*.c): units (unit
+# and option parsing, text escaping), crystal (one crystal file), index
+# (index evaluation of fuzzed crystal files: poles, n^2 < 0, extremes),
+# folder (the crystal-folder loader with FIFOs, links, hidden files).
+# Built with ASan and UBSan set to halt; each runs FUZZ_RUNS inputs (at
+# most FUZZ_SECONDS), inputs up to FUZZ_MAX_LEN bytes (beyond the
+# loader's 256 kB limit, so slow large inputs are found), 10 s per input
+# at most. Corpus in build/fuzz/corpus-NAME/, findings in
+# build/fuzz/findings-NAME/. `make fuzz FUZZ_TARGETS=units` runs one.
+FUZZ_TARGETS ?= units crystal index folder
+FUZZ_RUNS    ?= 1000000
+FUZZ_SECONDS ?= 3600
+FUZZ_MAX_LEN ?= 1048576
+FUZZ_CC      ?= clang
+FUZZ_CFLAGS   = -std=c17 -D_DEFAULT_SOURCE -g -O1 -Wall -Wextra \
+                -fsanitize=address,undefined -fno-sanitize-recover=all \
+                -fno-omit-frame-pointer -Iinclude -Isrc $(PKG_CFLAGS) \
+                -DDK_VERSION='"$(VERSION)"' \
+                -DDK_CRYSTAL_DIR='"$(abspath crystals)"'
+FUZZ_OBJ     := $(LIB_SRC:%.c=$(BUILD)/fuzz/obj/%.o)
+
+$(BUILD)/fuzz/obj/%.o: %.c | $(DEPCHECK)
+	@command -v $(FUZZ_CC) >/dev/null || { echo "error: make fuzz needs clang (apt-get install clang)"; exit 1; }
+	@mkdir -p $(dir $@)
+	@echo "  FUZZCC  $<"
+	$(Q)$(FUZZ_CC) $(FUZZ_CFLAGS) -fsanitize=fuzzer-no-link -c $< -o $@
+
+$(BUILD)/fuzz/fuzz_%: tests/fuzz/fuzz_%.c tests/fuzz/fuzz_common.h $(FUZZ_OBJ)
+	@echo "  FUZZLD  $@"
+	$(Q)$(FUZZ_CC) $(FUZZ_CFLAGS) -fsanitize=fuzzer -o $@ $< $(FUZZ_OBJ) \
+	    $(LDLIBS_ALL)
+
+fuzz: $(FUZZ_TARGETS:%=$(BUILD)/fuzz/fuzz_%)
+	@sh tests/fuzz/run.sh $(BUILD)/fuzz "$(FUZZ_TARGETS)" $(FUZZ_RUNS) \
+	    $(FUZZ_SECONDS) $(FUZZ_MAX_LEN)
 
 clean:
 	rm -rf $(BUILD)

@@ -3,17 +3,22 @@
  * every shipped file and every fixture is mutated many times (byte flips,
  * truncation, duplicated lines; a fixed pseudo-random sequence, so the
  * test repeats exactly) and loaded. Each load must succeed or fail with
- * a message. make check also runs this under ASan and UBSan, which turn
- * any memory error into a failure. tests/fuzz/ has the open-ended
- * libFuzzer target (make fuzz).
+ * a message. Every mutated file that loads has the index of each set and
+ * axis evaluated where formulas break (poles, n² < 0, far outside the
+ * ranges): each value is finite or an error with a message. make check
+ * also runs this under ASan and UBSan, which turn any memory error into a
+ * failure. tests/fuzz/ has the open-ended libFuzzer targets (make fuzz).
  */
 #include <glob.h>
+#include <limits.h>
 #include <stdint.h>
 #include <unistd.h>
 
 #include "testutil.h"
 
 #include "deltak/crystal.h"
+#include "deltak/material.h"
+#include "deltak/text.h"
 #include "deltak/units.h"
 
 #define MUTATIONS 60
@@ -76,6 +81,56 @@ mutate(char *buf, size_t *n)
     }
 }
 
+/* One line a terminal shows as it is. */
+static int
+printable(const char *m)
+{
+    if (!*m)
+        return 0;
+    for (const unsigned char *p = (const unsigned char *)m; *p; p++)
+        if (*p < 0x20 || *p == 0x7f)
+            return 0;
+    return 1;
+}
+
+/* Evaluate every set and axis of @c at awkward points; returns the number
+ * of evaluations refused (with a message). */
+static int
+evaluate_everywhere(const dk_crystal *c)
+{
+    int refused = 0;
+    for (int i = 0; i < c->nsets; i++) {
+        const dk_dispersion_set *set = &c->sets[i];
+        const double *wr = set->wavelength_range_um;
+        double lambdas[] = {wr[0], wr[1], c->transparency_um[0], 1e-3, 1.064,
+                            1e4};
+        double temps[] = {set->reference_temperature_c, -273, 1e5};
+        for (int a = 0; a < set->naxes; a++)
+            for (size_t l = 0; l < sizeof lambdas / sizeof lambdas[0]; l++)
+                for (size_t t = 0; t < sizeof temps / sizeof temps[0]; t++) {
+                    dk_index_value v;
+                    dk_error err = {0};
+                    if (dk_index_eval(set, &set->axes[a], lambdas[l],
+                                      temps[t], &v, &err) == DK_OK) {
+                        assert_true(isfinite(v.n) && isfinite(v.dn_dl) &&
+                                    isfinite(v.d2n_dl2) &&
+                                    isfinite(v.d3n_dl3) &&
+                                    isfinite(v.dn_dt));
+                    } else {
+                        assert_true(printable(err.msg));
+                        refused++;
+                    }
+                    double n = 0;
+                    if (dk_material_n(c, set, set->axes[a].label, lambdas[l],
+                                      temps[t], &n, NULL, &err) == DK_OK)
+                        assert_true(isfinite(n));
+                    else
+                        assert_true(printable(err.msg));
+                }
+    }
+    return refused;
+}
+
 static void
 mutated_files_never_crash(void **state)
 {
@@ -87,7 +142,7 @@ mutated_files_never_crash(void **state)
     int fd = mkstemp(tmp);
     assert_true(fd >= 0);
     close(fd);
-    int ok = 0, failed = 0;
+    int ok = 0, failed = 0, refused = 0;
     for (size_t i = 0; i < g.gl_pathc; i++) {
         size_t n0 = 0;
         char *orig = slurp(g.gl_pathv[i], &n0);
@@ -103,10 +158,11 @@ mutated_files_never_crash(void **state)
             dk_crystal *c = NULL;
             dk_error err = {0};
             if (dk_crystal_load(tmp, &c, &err) == DK_OK) {
+                refused += evaluate_everywhere(c);
                 dk_crystal_free(c);
                 ok++;
             } else {
-                assert_true(strlen(err.msg) > 0);
+                assert_true(printable(err.msg));
                 failed++;
             }
             free(buf);
@@ -115,35 +171,65 @@ mutated_files_never_crash(void **state)
     }
     unlink(tmp);
     globfree(&g);
-    print_message("%d mutated files loaded, %d refused with a message\n", ok,
-                  failed);
-    assert_true(failed > 0);
+    print_message("%d mutated files loaded, %d refused with a message; "
+                  "%d index evaluations refused with a message\n",
+                  ok, failed, refused);
+    assert_true(failed > 0 && ok > 0);
 }
 
 static void
 unit_parsers_take_anything(void **state)
 {
     (void)state;
-    static const char alphabet[] = "0123456789.eE+-umnµcsTHzKCWk/^2 \t";
-    for (int k = 0; k < 5000; k++) {
-        char s[24];
-        int len = (int)(next() % 20);
+    /* Digits, signs, exponents, unit letters, hex and nan/inf pieces,
+     * control characters and a UTF-8 lead byte. */
+    static const char alphabet[] = "0123456789.eE+-umnµcsTHzKCWk/^2 \txpaifr"
+                                   "\n\x1b\x7f\xc2\xb0";
+    typedef dk_status (*parser)(const char *, double *, dk_error *);
+    static const struct {
+        parser fn;
+        double lo;
+        int strict;
+    } units[] = {{dk_parse_wavelength, 0, 1},  {dk_parse_temperature, -273.15, 1},
+                 {dk_parse_length, 0, 1},      {dk_parse_duration, 0, 1},
+                 {dk_parse_intensity, 0, 0},   {dk_parse_power, 0, 0}};
+    int accepted = 0;
+    for (int k = 0; k < 20000; k++) {
+        char s[40];
+        int len = (int)(next() % 32);
         for (int i = 0; i < len; i++)
             s[i] = alphabet[next() % (sizeof alphabet - 1)];
         s[len] = '\0';
-        double v = 0;
+        for (size_t u = 0; u < sizeof units / sizeof units[0]; u++) {
+            double v = -1234.5;
+            dk_error err = {0};
+            if (units[u].fn(s, &v, &err) == DK_OK) {
+                assert_true(isfinite(v));
+                assert_true(units[u].strict ? v > units[u].lo
+                                            : v >= units[u].lo);
+                accepted++;
+            } else {
+                assert_true(v == -1234.5 && printable(err.msg));
+            }
+        }
+        double d = -1234.5;
         dk_error err = {0};
-        if (dk_parse_wavelength(s, &v, &err) == DK_OK)
-            assert_true(isfinite(v) && v > 0);
+        if (dk_parse_double(s, -1, 1, &d, &err) == DK_OK)
+            assert_true(d >= -1 && d <= 1);
         else
-            assert_true(strlen(err.msg) > 0);
-        if (dk_parse_temperature(s, &v, &err) == DK_OK)
-            assert_true(isfinite(v) && v > -273.15);
-        dk_parse_length(s, &v, NULL);
-        dk_parse_duration(s, &v, NULL);
-        dk_parse_intensity(s, &v, NULL);
-        dk_parse_power(s, &v, NULL);
+            assert_true(d == -1234.5 && printable(err.msg));
+        if (dk_parse_angle_deg(s, -90, 90, &d, &err) == DK_OK)
+            assert_true(d >= -90 && d <= 90);
+        else
+            assert_true(printable(err.msg));
+        long l = -7;
+        if (dk_parse_int(s, LONG_MIN, LONG_MAX, &l, &err) != DK_OK)
+            assert_true(l == -7 && printable(err.msg));
+        char esc[24];
+        dk_text_escape(s, esc, sizeof esc);
+        assert_true(strlen(esc) < sizeof esc && dk_text_is_clean(esc, 0));
     }
+    assert_true(accepted > 0);
 }
 
 int

@@ -114,10 +114,16 @@ typedef struct dk_db {
  * @path: a crystal YAML file
  * @out: on success a new crystal, to be freed with dk_crystal_free()
  *
- * Returns: DK_OK; DK_EIO if the file cannot be read; DK_EPARSE with
- * "cannot load 'PATH': line L, column C: ..." for any schema error
- * (missing field, wrong type, unknown key or formula, duplicate key,
- * non-finite number). On error *out is unchanged.
+ * Returns: DK_OK; DK_EIO if the file cannot be read or is not a regular
+ * file (or a link to one); DK_EPARSE with "cannot load 'PATH': line L,
+ * column C: ..." for any schema error (missing field, wrong type, unknown
+ * key or formula, duplicate key, non-finite number, control characters
+ * in a text, not a crystal file) and for a file beyond the loader's limits
+ * (256 kB, 32 levels of nesting, 20000 nodes, 32 aliases, no YAML
+ * aliases (*name): see src/data/crystal_load.h); DK_EINVAL for an empty @path; DK_ENOMEM.
+ * Messages never quote the content of a file that is not a crystal file,
+ * and escape control characters in what they quote. On error *out is
+ * unchanged.
  */
 dk_status dk_crystal_load(const char *path, dk_crystal **out, dk_error *err);
 
@@ -131,11 +137,17 @@ void dk_crystal_free(dk_crystal *c);
  *
  * A file that fails to load is recorded in (*out)->errors and skipped;
  * two files claiming the same name or alias are an error of the later one.
+ * Files are read in name order; hidden files are skipped; at most
+ * DK_DB_MAX_FILES files are read (the rest is one error in the list).
+ * An empty folder gives an empty database.
  *
  * Returns: DK_OK (even with skipped files); DK_EIO if @dir cannot be read;
  * DK_ENOMEM.
  */
 dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
+
+/* The most crystal files dk_db_load() reads from one folder. */
+#define DK_DB_MAX_FILES 256
 
 /*
  * dk_db_load_for:
@@ -148,9 +160,10 @@ dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
  * parsed and *out holds that one crystal (a command that names its
  * crystal starts in well under a millisecond instead of parsing the whole
  * folder). In every other case - the name unknown or claimed twice, a file
- * whose names are not written in the plain forms, the file failing to
- * load - the whole folder is loaded exactly as by dk_db_load(). Files that
- * are not read are not reported in (*out)->errors.
+ * whose names are not written in the plain forms, more files than
+ * DK_DB_MAX_FILES, the file failing to load - the whole folder is loaded
+ * exactly as by dk_db_load(). Files that are not read are not reported in
+ * (*out)->errors.
  *
  * Returns: as dk_db_load().
  */

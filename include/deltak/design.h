@@ -83,6 +83,10 @@ typedef enum dk_solved {
 
 #define DK_DESIGN_MAX_SOL 32
 
+/* Temperatures above this are refused: no data set is fitted near it,
+ * and formulas extrapolated that far give unphysical indices. */
+#define DK_DESIGN_MAX_TEMP_C 1000.0
+
 /* What the user asked for. Initialise with dk_design_request_init(). */
 typedef struct dk_design_request {
     const dk_crystal *crystal;

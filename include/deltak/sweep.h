@@ -90,7 +90,7 @@ typedef struct dk_sweep {
 
 /* One curve: NaN in y breaks the line. */
 typedef struct dk_series {
-    char label[64];      /* UTF-8 legend text, may be empty */
+    char label[96];      /* UTF-8 legend text, may be empty */
     int family;          /* index of the family member, -1 if none */
     int branch;          /* root branch (solve) or component (GVM) */
     int wave;            /* for DK_VAR_WAVELENGTHS: 0 signal, 1 idler; -1 */
@@ -150,6 +150,15 @@ dk_status dk_var_parse(const char *name, dk_var *v, dk_error *err);
 /* The variable's name and its unit in sweeps ("um", "C", "deg", "mm"). */
 const char *dk_var_name(dk_var v);
 const char *dk_var_unit(dk_var v);
+
+/*
+ * dk_var_check:
+ * Whether @value (sweep unit) is one a sweep of @v takes: temperatures
+ * −273.15 to 1000 °C, wavelengths 1 nm to 1 mm, periods 1 nm to 10 mm,
+ * angles ±360° (α below 45°), lengths up to 10 m.
+ * Returns: DK_OK or DK_EINVAL naming the variable and the limits.
+ */
+dk_status dk_var_check(dk_var v, double value, dk_error *err);
 
 /* 1 for the wavelength variables. */
 int dk_var_is_wavelength(dk_var v);

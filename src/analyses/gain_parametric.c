@@ -141,8 +141,10 @@ dk_opa_signal_gain(double gamma_per_mm, double dk_rad_per_mm,
     if (!nonnegative(gamma_per_mm) || !isfinite(dk_rad_per_mm) ||
         !nonnegative(length_mm))
         return dk_error_set(err, DK_EINVAL,
-                            "gain needs Gamma >= 0 (1/mm), finite dk "
-                            "(rad/mm) and length >= 0 (mm)");
+                            "parametric gain: the coupling Gamma must be "
+                            ">= 0 (got %g /mm), the mismatch finite (got "
+                            "%g rad/mm) and the length >= 0 (got %g mm)",
+                            gamma_per_mm, dk_rad_per_mm, length_mm);
     double a = gamma_per_mm * gamma_per_mm *
                shape(gamma_per_mm, dk_rad_per_mm / 2, length_mm);
     if (!isfinite(a))
@@ -171,8 +173,9 @@ dk_opa_dk_fwhm_rad_per_mm(double gamma_per_mm, double length_mm,
 {
     if (!nonnegative(gamma_per_mm) || !positive(length_mm))
         return dk_error_set(err, DK_EINVAL,
-                            "gain width needs Gamma >= 0 (1/mm) and "
-                            "length > 0 (mm)");
+                            "gain bandwidth: the coupling Gamma must be >= "
+                            "0 (got %g /mm) and the length > 0 (got %g mm)",
+                            gamma_per_mm, length_mm);
     /* G − 1 = Γ² · shape: Γ² drops out of the half-height condition, so
      * Γ = 0 gives the low-gain limit, the sinc² width. */
     half_probe hp = {gamma_per_mm, length_mm,

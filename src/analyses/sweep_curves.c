@@ -206,6 +206,13 @@ dk_sweep_result_free(dk_sweep_result *res)
 static dk_status
 check_spec(const dk_design *base, const dk_sweep_spec *sp, dk_error *err)
 {
+    dk_status vs = dk_var_check(sp->x, sp->x_lo, err);
+    if (!vs)
+        vs = dk_var_check(sp->x, sp->x_hi, err);
+    for (int f = 0; !vs && f < sp->nfamily; f++)
+        vs = dk_var_check(sp->family, sp->family_values[f], err);
+    if (vs)
+        return vs;
     if (sp->nx < 2 || sp->nx > DK_SWEEP_MAX_POINTS)
         return dk_error_set(err, DK_EINVAL,
                             "a curve has 2 to %d points, not %d",

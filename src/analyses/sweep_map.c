@@ -36,6 +36,15 @@ dk_map_result_free(dk_map_result *res)
 static dk_status
 check_spec(const dk_design *base, const dk_map_spec *sp, dk_error *err)
 {
+    dk_status vs = dk_var_check(sp->x, sp->x_lo, err);
+    if (!vs)
+        vs = dk_var_check(sp->x, sp->x_hi, err);
+    if (!vs)
+        vs = dk_var_check(sp->y, sp->y_lo, err);
+    if (!vs)
+        vs = dk_var_check(sp->y, sp->y_hi, err);
+    if (vs)
+        return vs;
     if (sp->nx < 2 || sp->ny < 2 || sp->nx > DK_MAP_MAX_SIDE ||
         sp->ny > DK_MAP_MAX_SIDE)
         return dk_error_set(err, DK_EINVAL,

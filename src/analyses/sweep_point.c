@@ -75,6 +75,28 @@ dk_var_is_wavelength(dk_var v)
            v == DK_VAR_FUNDAMENTAL || v == DK_VAR_WAVELENGTHS;
 }
 
+dk_status
+dk_var_check(dk_var v, double value, dk_error *err)
+{
+    static const struct {
+        double lo, hi;
+    } lim[] = {
+        [DK_VAR_PERIOD] = {1e-3, 1e4},     [DK_VAR_TEMP] = {-273.15, 1000},
+        [DK_VAR_PUMP] = {1e-3, 1e3},       [DK_VAR_SIGNAL] = {1e-3, 1e3},
+        [DK_VAR_IDLER] = {1e-3, 1e3},      [DK_VAR_FUNDAMENTAL] = {1e-3, 1e3},
+        [DK_VAR_THETA] = {-360, 360},      [DK_VAR_PHI] = {-360, 360},
+        [DK_VAR_ALPHA] = {-44.99, 44.99},  [DK_VAR_LENGTH] = {1e-6, 1e4},
+        [DK_VAR_WAVELENGTHS] = {1e-3, 1e3},
+    };
+    if (!(value >= lim[v].lo && value <= lim[v].hi))
+        return dk_error_set(err, DK_EINVAL,
+                            "%s = %g %s is outside what a sweep takes: %g to "
+                            "%g %s",
+                            vars[v].name, value, vars[v].unit, lim[v].lo,
+                            lim[v].hi, vars[v].unit);
+    return DK_OK;
+}
+
 void
 dk_sweep_init(dk_sweep *s, const dk_design *base)
 {

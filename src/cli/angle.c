@@ -185,8 +185,9 @@ print_csv(FILE *f, const dk_design *d, int header)
                    "walkoff_idler_mrad,walkoff_pump_mrad,chosen,flags\n");
     for (int k = 0; k < d->nsol; k++) {
         const dk_solution *s = &d->sol[k];
+        char q[160];
         fprintf(f, "%s,%s,%s,%s,%.8g,%.8g,%.8g,%.8g,%.6g,%.6g,%.6g,%.6g,%d,%s\n",
-                d->set->name, s->type, s->pol, s->plane,
+                cli_csv(d->set->name, q, sizeof q), s->type, s->pol, s->plane,
                 s->theta_rad / DEG, s->phi_rad / DEG, s->alpha_rad / DEG,
                 s->temp_c, s->deff_pm_per_v, s->walkoff_rad[0] * 1e3,
                 s->walkoff_rad[1] * 1e3, s->walkoff_rad[2] * 1e3,

@@ -226,7 +226,8 @@ cmd_chip(int argc, char **argv)
                 char buf[160];
                 json_object *fl = json_object_new_array();
                 dk_range_codes(gflags[i], 0, buf, sizeof buf);
-                for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
+                for (char *sv = NULL, *t = strtok_r(buf, ";", &sv); t;
+         t = strtok_r(NULL, ";", &sv))
                     json_object_array_add(fl, json_object_new_string(t));
                 json_object_object_add(e, "flags", fl);
             }

@@ -13,22 +13,56 @@
 #include "deltak/constants.h"
 #include "deltak/design.h"
 #include "deltak/material.h"
+#include "deltak/text.h"
 #include "deltak/units.h"
 
 /* Everything the answer rests on: design notes and the command's own
  * warnings, shown by cli_warnings_flush(), cli_print_assumed() and
  * cli_notes_to_json(). */
-static dk_notes notes;
-static int out_mode;   /* CLI_TEXT, CLI_JSON or CLI_CSV */
+static _Thread_local dk_notes notes;
+static _Thread_local int out_mode;   /* CLI_TEXT, CLI_JSON or CLI_CSV */
+/* Where this thread's command writes: the process's streams, or buffers
+ * when a command is called in-process (deltak/command.h). */
+static _Thread_local FILE *out_stream, *err_stream;
+
+FILE *
+cli_stdout(void)
+{
+    return out_stream ? out_stream : stdout;
+}
+
+FILE *
+cli_stderr(void)
+{
+    return err_stream ? err_stream : stderr;
+}
+
+void
+cli_set_streams(FILE *out, FILE *err)
+{
+    out_stream = out;
+    err_stream = err;
+    dk_notes_clear(&notes);
+    out_mode = CLI_TEXT;
+}
+
+/* "error: MESSAGE" with every control character of the message shown
+ * as \xNN: messages quote what the user typed, and a terminal must not
+ * obey it. */
+static void
+print_error(const char *fmt, va_list ap)
+{
+    char msg[1024], esc[3072];
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    fprintf(cli_stderr(), "error: %s\n", dk_text_escape(msg, esc, sizeof esc));
+}
 
 int
 cli_error(const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", stderr);
-    vfprintf(stderr, fmt, ap);
-    fputc('\n', stderr);
+    print_error(fmt, ap);
     va_end(ap);
     return CLI_FAIL;
 }
@@ -45,11 +79,9 @@ cli_usage_error(const char *const usage[], const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
-    fputs("error: ", stderr);
-    vfprintf(stderr, fmt, ap);
-    fputc('\n', stderr);
+    print_error(fmt, ap);
     va_end(ap);
-    cli_print_usage(stderr, usage);
+    cli_print_usage(cli_stderr(), usage);
     return CLI_USAGE;
 }
 
@@ -82,7 +114,9 @@ cli_warn_index(const dk_dispersion_set *set, unsigned flags, double lambda_um,
                      set->name);
     if (!dk_warning_text(set, flags, lambda_um, temp_c, buf, sizeof buf))
         return;
-    for (char *line = strtok(buf, "\n"); line; line = strtok(NULL, "\n"))
+    char *sv = NULL;
+    for (char *line = strtok_r(buf, "\n", &sv); line;
+         line = strtok_r(NULL, "\n", &sv))
         dk_notes_add(&notes, DK_NOTE_RANGE,
                      strstr(line, " C ") ? "range:temperature"
                                          : "range:wavelength",
@@ -159,14 +193,14 @@ cli_warnings_flush(void)
         const dk_note *nt = &notes.item[i];
         if (nt->kind == DK_NOTE_DEFAULT && out_mode != CLI_CSV)
             continue;
-        fprintf(stderr, "%s: %s\n",
+        fprintf(cli_stderr(), "%s: %s\n",
                 nt->kind == DK_NOTE_DEFAULT   ? "note"
                 : nt->kind == DK_NOTE_CAUTION ? "caution"
                                               : "warning",
                 nt->text);
     }
     if (notes.dropped)
-        fprintf(stderr, "warning: %d more notes not shown\n", notes.dropped);
+        fprintf(cli_stderr(), "warning: %d more notes not shown\n", notes.dropped);
     dk_notes_clear(&notes);
 }
 
@@ -195,10 +229,12 @@ cli_find_crystal(const dk_db *db, const char *name)
     const dk_crystal *c = dk_db_find(db, name);
     if (c)
         return c;
-    fprintf(stderr, "error: unknown crystal '%s'; known crystals:", name);
+    char esc[160];
+    fprintf(cli_stderr(), "error: unknown crystal '%s'; known crystals:",
+            cli_escape(name, esc, sizeof esc));
     for (int i = 0; i < db->ncrystals; i++)
-        fprintf(stderr, "%s %s", i ? "," : "", db->crystals[i]->id);
-    fprintf(stderr, "\n(aliases such as BBO or PPLN work too; see 'deltak "
+        fprintf(cli_stderr(), "%s %s", i ? "," : "", db->crystals[i]->id);
+    fprintf(cli_stderr(), "\n(aliases such as BBO or PPLN work too; see 'deltak "
                     "crystals')\n");
     return NULL;
 }
@@ -211,11 +247,12 @@ cli_find_set(const dk_crystal *c, const char *name)
         cli_warn_index(s, 0, 0, 0);
         return s;
     }
-    fprintf(stderr, "error: %s has no data set '%s'; its sets are:", c->id,
-            name);
+    char esc[160];
+    fprintf(cli_stderr(), "error: %s has no data set '%s'; its sets are:",
+            c->id, cli_escape(name, esc, sizeof esc));
     for (int i = 0; i < c->nsets; i++)
-        fprintf(stderr, "%s %s", i ? "," : "", c->sets[i].name);
-    fputc('\n', stderr);
+        fprintf(cli_stderr(), "%s %s", i ? "," : "", c->sets[i].name);
+    fputc('\n', cli_stderr());
     return NULL;
 }
 
@@ -238,9 +275,9 @@ cli_out_commit(cli_out *o)
         free(o->buf);
         return cli_error("out of memory");
     }
-    size_t w = fwrite(o->buf, 1, o->len, stdout);
+    size_t w = fwrite(o->buf, 1, o->len, cli_stdout());
     free(o->buf);
-    if (w != o->len || fflush(stdout) != 0)
+    if (w != o->len || fflush(cli_stdout()) != 0)
         return cli_error("cannot write the output");
     return 0;
 }
@@ -338,20 +375,21 @@ cli_parse_range(const char *s, int wavelengths, double r[2], dk_error *err)
 }
 
 int
-cli_common_option(int ch, cli_common *cm, const char *const usage[])
+cli_common_option(int ch, const char *arg, cli_common *cm,
+                  const char *const usage[])
 {
     switch (ch) {
     case 'c':
         if (cm->crystal)
             return cli_usage_error(usage, "--crystal is given twice; give "
                                           "it once");
-        cm->crystal = optarg;
+        cm->crystal = arg;
         return 1;
     case 'd':
         if (cm->set_name)
             return cli_usage_error(usage, "--dispersion is given twice; "
                                           "give it once");
-        cm->set_name = optarg;
+        cm->set_name = arg;
         return 1;
     case 'a': cm->all = 1; return 1;
     case 'j': cm->json = 1; return 1;
@@ -364,9 +402,8 @@ int
 cli_common_finish(const cli_common *cm, int argc, char **argv, int allow_all,
                   const char *const usage[])
 {
-    if (optind < argc)
-        return cli_usage_error(usage, "unexpected argument '%s'",
-                               argv[optind]);
+    (void)argc;
+    (void)argv;
     if (!cm->crystal)
         return cli_usage_error(usage, "--crystal is required");
     if (cm->json && cm->csv)
@@ -381,12 +418,6 @@ cli_common_finish(const cli_common *cm, int argc, char **argv, int allow_all,
     return 0;
 }
 
-int
-cli_bad_option(char **argv, const char *const usage[])
-{
-    return cli_usage_error(usage, "unknown or incomplete option '%s'",
-                           argv[optind - 1]);
-}
 
 /* Strict reading of a plain number: no empty text, NaN, infinity,
  * hexadecimal form or trailing characters. */
@@ -461,7 +492,8 @@ cli_flags_json(json_object *obj, unsigned range, int shg)
         return;
     json_object *arr = json_object_new_array();
     dk_range_codes(range, shg, buf, sizeof buf);
-    for (char *t = strtok(buf, ";"); t; t = strtok(NULL, ";"))
+    for (char *sv = NULL, *t = strtok_r(buf, ";", &sv); t;
+         t = strtok_r(NULL, ";", &sv))
         json_object_array_add(arr, json_object_new_string(t));
     json_object_object_add(obj, "flags", arr);
 }
@@ -473,4 +505,56 @@ cli_flags_text(FILE *f, unsigned range, int shg)
     if (range)
         fprintf(f, "  [extrapolated: %s]\n",
                 dk_range_words(range, shg, buf, sizeof buf));
+}
+
+int
+cli_edit_distance(const char *a, const char *b)
+{
+    size_t la = strlen(a), lb = strlen(b);
+    if (la > 64 || lb > 64)
+        return 99;
+    int prev[65], cur[65];
+    for (size_t j = 0; j <= lb; j++)
+        prev[j] = (int)j;
+    for (size_t i = 1; i <= la; i++) {
+        cur[0] = (int)i;
+        for (size_t j = 1; j <= lb; j++) {
+            int sub = prev[j - 1] + (a[i - 1] != b[j - 1]);
+            int del = prev[j] + 1, ins = cur[j - 1] + 1;
+            cur[j] = sub < del ? (sub < ins ? sub : ins)
+                               : (del < ins ? del : ins);
+        }
+        memcpy(prev, cur, sizeof(int) * (lb + 1));
+    }
+    return prev[lb];
+}
+
+const char *
+cli_escape(const char *text, char *buf, size_t n)
+{
+    return dk_text_escape(text, buf, n);
+}
+
+const char *
+cli_csv(const char *text, char *buf, size_t n)
+{
+    if (!strpbrk(text, ",\"\r\n")) {
+        snprintf(buf, n, "%s", text);
+        return buf;
+    }
+    /* RFC 4180: quote the field, double the quotes inside. */
+    size_t k = 0;
+    if (n < 3) {
+        buf[0] = '\0';
+        return buf;
+    }
+    buf[k++] = '"';
+    for (; *text && k + 3 < n; text++) {
+        if (*text == '"')
+            buf[k++] = '"';
+        buf[k++] = *text;
+    }
+    buf[k++] = '"';
+    buf[k] = '\0';
+    return buf;
 }

@@ -24,6 +24,28 @@
 #define CLI_JSON 1
 #define CLI_CSV 2
 
+/* Levenshtein distance of two short words (99 beyond 64 characters), for
+ * "did you mean" suggestions. */
+int cli_edit_distance(const char *a, const char *b);
+
+/* Text from the user or a file made safe to print (control characters
+ * shown as \xNN). Returns @buf. */
+const char *cli_escape(const char *text, char *buf, size_t n);
+
+/* This thread's standard output and error: the process's, or the
+ * buffers of an in-process call (deltak/command.h). Commands never write
+ * to stdout or stderr directly. */
+FILE *cli_stdout(void);
+FILE *cli_stderr(void);
+
+/* Make @out and @err this thread's streams (NULL: the process's) and
+ * start with no notes, in text mode. */
+void cli_set_streams(FILE *out, FILE *err);
+
+/* A text field for CSV: as it is, or quoted (RFC 4180) when it holds a
+ * comma, quote or line break. Returns @buf. */
+const char *cli_csv(const char *text, char *buf, size_t n);
+
 /* Print "error: ..." on stderr; returns CLI_FAIL. */
 int cli_error(const char *fmt, ...)
 #if defined(__GNUC__)
@@ -159,7 +181,8 @@ typedef struct cli_common {
 
 /* Take a common option (getopt code @ch): 1 if it was one, 0 if not,
  * CLI_USAGE (after printing) when --crystal or --dispersion repeats. */
-int cli_common_option(int ch, cli_common *cm, const char *const usage[]);
+int cli_common_option(int ch, const char *arg, cli_common *cm,
+                      const char *const usage[]);
 
 /*
  * After the option loop: no leftover arguments, --crystal given, and
@@ -169,8 +192,6 @@ int cli_common_option(int ch, cli_common *cm, const char *const usage[]);
 int cli_common_finish(const cli_common *cm, int argc, char **argv,
                       int allow_all, const char *const usage[]);
 
-/* For getopt's '?' and ':' codes: print the error and usage; CLI_USAGE. */
-int cli_bad_option(char **argv, const char *const usage[]);
 
 /* The wavelength options every mixing command takes. */
 typedef struct cli_wave_args {

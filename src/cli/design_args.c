@@ -13,8 +13,8 @@
 #define IDX(opt) ((opt) - OPT_PUMP)
 
 int
-cli_design_option(int ch, const struct option *opts, cli_design_args *a,
-                  const char *const usage[])
+cli_design_option(int ch, const char *arg, const struct option *opts,
+                  cli_design_args *a, const char *const usage[])
 {
     if (ch < OPT_PUMP || ch >= OPT_DESIGN_END)
         return 0;
@@ -27,7 +27,7 @@ cli_design_option(int ch, const struct option *opts, cli_design_args *a,
     if (a->text[IDX(ch)])
         return cli_usage_error(usage, "--%s is given twice; give it once",
                                name);
-    a->text[IDX(ch)] = optarg ? optarg : "";
+    a->text[IDX(ch)] = arg ? arg : "";
     a->name[IDX(ch)] = name;
     return 1;
 }

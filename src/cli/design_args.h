@@ -76,7 +76,7 @@ typedef struct cli_design_args {
  * returns 1 if it was one, 0 if not, CLI_USAGE (after printing) when it
  * was given twice.
  */
-int cli_design_option(int ch, const struct option *opts,
+int cli_design_option(int ch, const char *arg, const struct option *opts,
                       cli_design_args *a, const char *const usage[]);
 
 /*

@@ -291,8 +291,10 @@ cmd_index(int argc, char **argv)
                          "%sno-temperature-dependence", k ? ";" : "");
             if (dk_set_has_temperature(rows[i].set))
                 snprintf(dndt, sizeof dndt, "%.6g", rows[i].v.dn_dt);
+            char q1[160], q2[160];
             fprintf(out.f, "%s,%s,%c,%.10g,%.10g,%.10g,%.10g,%.8g,%.8g,%s,%s\n",
-                    c->id, rows[i].set->name, rows[i].axis, lambda_um,
+                    cli_csv(c->id, q1, sizeof q1),
+                    cli_csv(rows[i].set->name, q2, sizeof q2), rows[i].axis, lambda_um,
                     rows[i].temp_c, rows[i].v.n, rows[i].ng, rows[i].gvd,
                     rows[i].tod, dndt, flags);
         }

@@ -1,43 +1,15 @@
 /*
  * main.c - the deltak program: find the subcommand in the table and run it.
  */
+#include <errno.h>
 #include <stdio.h>
 #include <string.h>
 
 #include "cli.h"
-#include "commands.h"
+#include "command_table.h"
 
-struct cli_cmd {
-    const char *name;
-    int (*fn)(int argc, char **argv);
-    const char *summary;
-};
-
-/* Sorted by name. */
-static const struct cli_cmd commands[] = {
-    {"angle", cmd_angle,
-     "birefringent phase-matching directions, walk-off and d_eff"},
-    {"chip", cmd_chip,
-     "multi-grating and fan-out poling layouts covering a target range"},
-    {"crystals", cmd_crystals,
-     "list the crystal database, or show one crystal's data and sources"},
-    {"gain", cmd_gain,
-     "conversion efficiency, parametric gain and bandwidth, focusing"},
-    {"index", cmd_index,
-     "refractive index, group index, GVD and TOD of each axis"},
-    {"period", cmd_period,
-     "QPM poling period; or, for a period, temperature or wavelengths"},
-    {"pulse", cmd_pulse,
-     "group velocities, GVM, GVD, pulse-splitting and walk-off lengths"},
-    {"run", cmd_run,
-     "carry out a design file: every step, figures and a report"},
-    {"sweep", cmd_sweep,
-     "tuning curves (1-D) and phase-matching maps (2-D), with --plot"},
-    {"tolerance", cmd_tolerance,
-     "spectral, thermal and angular acceptance (FWHM) and sinc^2 curves"},
-};
-
-#define NCOMMANDS (sizeof commands / sizeof commands[0])
+#define NCOMMANDS cli_ncommands
+#define commands cli_commands
 
 static void
 print_help(FILE *f)
@@ -58,6 +30,33 @@ print_help(FILE *f)
             "1064nm, 1.064um, 9398cm-1, 281.8THz");
 }
 
+/* Whatever went to standard output must have arrived: a full disk or a
+ * closed pipe is a failure, not a success with nothing written. */
+static int
+finish(int rc)
+{
+    if (fflush(stdout) != 0 || ferror(stdout)) {
+        fprintf(stderr, "error: cannot write the output: %s\n",
+                strerror(errno ? errno : EIO));
+        return rc ? rc : CLI_FAIL;
+    }
+    return rc;
+}
+
+/* The closest command name to @name, or NULL (edit distance ≤ 2). */
+static const char *
+closest(const char *name)
+{
+    const char *best = NULL;
+    int bestd = 3;
+    for (size_t i = 0; i < NCOMMANDS; i++) {
+        int d = cli_edit_distance(name, commands[i].name);
+        if (d < bestd)
+            bestd = d, best = commands[i].name;
+    }
+    return best;
+}
+
 int
 main(int argc, char **argv)
 {
@@ -68,20 +67,24 @@ main(int argc, char **argv)
     const char *name = argv[1];
     if (strcmp(name, "--version") == 0 || strcmp(name, "version") == 0) {
         printf("deltak %s\n", DK_VERSION);
-        return 0;
+        return finish(0);
     }
     if (strcmp(name, "--help") == 0 || strcmp(name, "-h") == 0 ||
         strcmp(name, "help") == 0) {
         print_help(stdout);
-        return 0;
+        return finish(0);
     }
     for (size_t i = 0; i < NCOMMANDS; i++)
         if (strcmp(commands[i].name, name) == 0) {
             int rc = commands[i].fn(argc - 1, argv + 1);
             cli_warnings_flush();
-            return rc;
+            return finish(rc);
         }
-    fprintf(stderr, "error: unknown command '%s'\n\n", name);
+    char esc[128];
+    const char *near = closest(name);
+    fprintf(stderr, "error: unknown command '%s'%s%s%s\n\n",
+            cli_escape(name, esc, sizeof esc), near ? "; did you mean '" : "",
+            near ? near : "", near ? "'?" : "");
     print_help(stderr);
     return CLI_USAGE;
 }

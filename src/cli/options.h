@@ -8,7 +8,7 @@
 #ifndef DK_CLI_OPTIONS_H
 #define DK_CLI_OPTIONS_H
 
-#include <getopt.h>
+#include <getopt.h>   /* struct option, for the option tables */
 
 #include "cli.h"
 #include "design_args.h"

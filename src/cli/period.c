@@ -258,8 +258,10 @@ print_csv(FILE *f, const dk_design *d)
                "temperature_C,period_um,order,deff_pm_per_V,flags\n");
     for (int k = 0; k < d->nsol; k++) {
         const dk_solution *o = &d->sol[k];
+        char q1[160], q2[160];
         fprintf(f, "%s,%s,%.10g,%.10g,%.10g,%.8g,%.8g,%d,%.6g,%s\n",
-                d->crystal->id, d->set->name, o->waves.pump_um,
+                cli_csv(d->crystal->id, q1, sizeof q1),
+                cli_csv(d->set->name, q2, sizeof q2), o->waves.pump_um,
                 o->waves.signal_um, o->waves.idler_um, o->temp_c,
                 o->period_um, d->qpm.order, o->deff_pm_per_v,
                 cli_csv_flags(o->range, d->shg, flags, sizeof flags));

@@ -11,7 +11,8 @@
 #define T(opt) (a->text[(opt) - OPT_PLOT])
 
 int
-cli_plot_option(int ch, cli_plot_args *a, const char *const usage[])
+cli_plot_option(int ch, const char *arg, cli_plot_args *a,
+                const char *const usage[])
 {
     static const char *const names[] = {"plot",  "size",  "xrange",
                                          "yrange", "log",  "title",
@@ -21,7 +22,7 @@ cli_plot_option(int ch, cli_plot_args *a, const char *const usage[])
     if (T(ch))
         return cli_usage_error(usage, "--%s is given twice; give it once",
                                names[ch - OPT_PLOT]);
-    T(ch) = optarg;
+    T(ch) = arg ? arg : "";
     return 1;
 }
 

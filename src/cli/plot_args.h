@@ -46,7 +46,8 @@ typedef struct cli_plot_args {
 
 /* Take a figure option: 1 if it was one, 0 if not, CLI_USAGE (after
  * printing) when it was given twice. */
-int cli_plot_option(int ch, cli_plot_args *a, const char *const usage[]);
+int cli_plot_option(int ch, const char *arg, cli_plot_args *a,
+                    const char *const usage[]);
 
 /* The file to draw into, or NULL. */
 const char *cli_plot_path(const cli_plot_args *a);

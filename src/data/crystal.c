@@ -4,6 +4,11 @@
  *
  * Thermal expansion: L(T) = L(T_ref)·[1 + α(T − T_ref) + β(T − T_ref)²]
  * (the form of Kim & Smith, J. Appl. Phys. 40, 4637 (1969)).
+ *
+ * Folder loading reads the *.yaml names (hidden files skipped, at most
+ * DK_DB_MAX_FILES), sorts them so that which of two clashing files wins is
+ * reproducible, and loads each with dk_crystal_load() (which bounds each
+ * file). Paths quoted in messages have control characters escaped.
  */
 #include <dirent.h>
 #include <errno.h>
@@ -14,6 +19,7 @@
 
 #include "core/arena.h"
 #include "deltak/crystal.h"
+#include "deltak/text.h"
 
 void
 dk_crystal_free(dk_crystal *c)
@@ -108,19 +114,40 @@ by_name(const void *a, const void *b)
 dk_status
 dk_db_load(const char *dir, dk_db **out, dk_error *err)
 {
-    DIR *d = opendir(dir);
+    char shown[200];
+    dk_text_escape(dir, shown, sizeof shown);
+    DIR *d = dir ? opendir(dir) : NULL;
     if (!d)
         return dk_error_set(err, DK_EIO,
                             "cannot read crystal folder '%s': %s (set "
                             "DELTAK_CRYSTALS to the folder of crystal files)",
-                            dir, strerror(errno));
+                            shown, dir ? strerror(errno) : "no folder named");
     dk_db *db = calloc(1, sizeof *db);
     char **names = NULL;
-    int nnames = 0;
+    int nnames = 0, too_many = 0;
     struct dirent *e;
-    while (db && (e = readdir(d))) {
+    while (db) {
+        errno = 0;
+        if (!(e = readdir(d))) {
+            if (errno) {
+                int saved = errno;
+                closedir(d);
+                for (int i = 0; i < nnames; i++)
+                    free(names[i]);
+                free(names);
+                dk_db_free(db);
+                return dk_error_set(err, DK_EIO,
+                                    "cannot read crystal folder '%s': %s",
+                                    shown, strerror(saved));
+            }
+            break;
+        }
         if (!is_yaml(e->d_name))
             continue;
+        if (nnames >= DK_DB_MAX_FILES) {
+            too_many = 1;
+            continue;
+        }
         char **nn = realloc(names, sizeof(char *) * (nnames + 1));
         if (!nn || !(nn[nnames] = strdup(e->d_name))) {
             names = nn ? nn : names;
@@ -133,11 +160,22 @@ dk_db_load(const char *dir, dk_db **out, dk_error *err)
     d = NULL;
     if (!db)
         goto oom;
-    /* Sorted, so that which of two clashing files wins is reproducible. */
-    qsort(names, nnames, sizeof(char *), by_name);
+    /* Sorted, so that which of two clashing files wins is reproducible.
+     * An empty folder has no list to sort (qsort on NULL is undefined). */
+    if (nnames > 1)
+        qsort(names, nnames, sizeof(char *), by_name);
     db->crystals = calloc(nnames + 1, sizeof(dk_crystal *));
     if (!db->crystals)
         goto oom;
+    if (too_many) {
+        char msg[DK_ERROR_MSG_MAX];
+        snprintf(msg, sizeof msg,
+                 "crystal folder '%s' has more than %d .yaml files: only "
+                 "the first %d by name were read",
+                 shown, DK_DB_MAX_FILES, DK_DB_MAX_FILES);
+        if (add_error(db, msg))
+            goto oom;
+    }
     for (int i = 0; i < nnames; i++) {
         size_t len = strlen(dir) + strlen(names[i]) + 2;
         char *path = malloc(len);
@@ -161,11 +199,12 @@ dk_db_load(const char *dir, dk_db **out, dk_error *err)
             if ((dup = clash(c, db->crystals[j])))
                 other = db->crystals[j];
         if (dup) {
-            char msg[DK_ERROR_MSG_MAX];
+            char msg[DK_ERROR_MSG_MAX], p1[160], p2[160];
             snprintf(msg, sizeof msg,
                      "cannot load '%s': the name '%s' is already taken by "
                      "'%s'",
-                     c->path, dup, other->path);
+                     dk_text_escape(c->path, p1, sizeof p1), dup,
+                     dk_text_escape(other->path, p2, sizeof p2));
             dk_crystal_free(c);
             if (add_error(db, msg))
                 goto oom;
@@ -173,7 +212,8 @@ dk_db_load(const char *dir, dk_db **out, dk_error *err)
         }
         db->crystals[db->ncrystals++] = c;
     }
-    qsort(db->crystals, db->ncrystals, sizeof(dk_crystal *), by_id);
+    if (db->ncrystals > 1)
+        qsort(db->crystals, db->ncrystals, sizeof(dk_crystal *), by_id);
     for (int i = 0; i < nnames; i++)
         free(names[i]);
     free(names);

@@ -7,8 +7,9 @@
  * from its top-level `id:` and `aliases: [...]` lines by a plain text scan
  * (no YAML parsing); only the file answering to the name is then loaded
  * with dk_crystal_load(). Whenever the scan is not conclusive - a file
- * whose names are written in another form, a name claimed by two files,
- * no file answering, the chosen file failing to load or naming itself
+ * whose names are written in another form, or that is not a regular
+ * file, a name claimed by two files, no file answering, more files than
+ * dk_db_load() reads, the chosen file failing to load or naming itself
  * otherwise than the scan read - the whole folder is loaded as by
  * dk_db_load(), so the answer (and any error) is exactly the same.
  */
@@ -17,10 +18,11 @@
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
+#include <sys/stat.h>
 
 #include "deltak/crystal.h"
 
-#define MAX_FILES 512
+#define MAX_FILES DK_DB_MAX_FILES
 #define MAX_NAMES 24      /* names one file may give in its quick scan */
 #define NAME_LEN 64
 #define MAX_FILE (1 << 20)
@@ -118,8 +120,13 @@ fail:
 static int
 scan_file(const char *path, quick *q)
 {
-    FILE *f = fopen(path, "rb");
+    /* Only regular files (or links to them) are read here: anything else
+     * (a FIFO would block) is left to dk_db_load(), which reports it. */
+    struct stat st;
     q->n = 0;
+    if (stat(path, &st) || !S_ISREG(st.st_mode))
+        return 0;
+    FILE *f = fopen(path, "rb");
     if (!f)
         return 0;
     char *text = malloc(MAX_FILE + 1);

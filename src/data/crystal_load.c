@@ -6,18 +6,34 @@
  * schema (crystals/README.md): unknown and duplicate keys, wrong types,
  * unknown formula kinds and non-finite numbers are errors reported with
  * file, line and column. Everything allocated lives in the crystal's arena.
+ *
+ * Limits, because every command loads every file of the folder: a file is
+ * read only if it is a regular file (a FIFO or device would block or never
+ * end) of at most DK_CRYSTAL_MAX_BYTES; a first pass over libyaml's events
+ * refuses nesting deeper than DK_CRYSTAL_MAX_DEPTH, more than
+ * DK_CRYSTAL_MAX_NODES nodes and aliases, before the document is built.
+ * The duplicate-key check sorts the keys of a mapping (n log n, no
+ * quadratic worst case). A file whose top level is not a mapping with an
+ * 'id' is "not a crystal file" and nothing of its content is quoted; all
+ * quoted text has its control characters escaped, and names and texts
+ * with control characters are refused (deltak/text.h).
  */
 #include <errno.h>
+#include <fcntl.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
+#include <sys/stat.h>
+#include <unistd.h>
 #include <yaml.h>
 
 #include "core/arena.h"
+#include "data/crystal_load.h"
 #include "deltak/crystal.h"
+#include "deltak/text.h"
 
 typedef struct ctx {
     const char *path;
@@ -40,21 +56,35 @@ fail(ctx *c, const yaml_node_t *at, const char *fmt, ...)
 #endif
     ;
 
+/* @path as it may be quoted: control characters escaped, long paths cut. */
+typedef struct shown_path {
+    char s[200];
+} shown_path;
+
+static shown_path
+show_path(const char *path)
+{
+    shown_path p;
+    dk_text_escape(path, p.s, sizeof p.s);
+    return p;
+}
+
 static dk_status
 fail(ctx *c, const yaml_node_t *at, const char *fmt, ...)
 {
-    char what[384];
+    char raw[384], what[300];
     va_list ap;
     va_start(ap, fmt);
-    vsnprintf(what, sizeof what, fmt, ap);
+    vsnprintf(raw, sizeof raw, fmt, ap);
     va_end(ap);
+    dk_text_escape(raw, what, sizeof what); /* it may quote the file */
+    shown_path p = show_path(c->path);
     if (at)
         return dk_error_set(c->err, DK_EPARSE,
                             "cannot load '%s': line %zu, column %zu: %s",
-                            c->path, at->start_mark.line + 1,
+                            p.s, at->start_mark.line + 1,
                             at->start_mark.column + 1, what);
-    return dk_error_set(c->err, DK_EPARSE, "cannot load '%s': %s", c->path,
-                        what);
+    return dk_error_set(c->err, DK_EPARSE, "cannot load '%s': %s", p.s, what);
 }
 
 static yaml_node_t *
@@ -70,6 +100,49 @@ scalar(const yaml_node_t *n)
                                             : NULL;
 }
 
+/* A key of a mapping and its place in the file, for the duplicate check. */
+typedef struct key_ref {
+    const char *key;
+    size_t index;
+} key_ref;
+
+static int
+by_key_then_place(const void *a, const void *b)
+{
+    const key_ref *x = a, *y = b;
+    int d = strcmp(x->key, y->key);
+    return d ? d : (x->index > y->index) - (x->index < y->index);
+}
+
+/*
+ * The first key of @map (in file order) that repeats an earlier one, or
+ * -1; -2 when out of memory. The keys are sorted by (text, place): a
+ * repeat is any entry equal to the one before it. n log n.
+ */
+static long
+first_duplicate(ctx *c, yaml_node_t *map)
+{
+    size_t n = (size_t)(map->data.mapping.pairs.top -
+                        map->data.mapping.pairs.start);
+    if (n < 2)
+        return -1;
+    key_ref *refs = malloc(n * sizeof *refs);
+    if (!refs)
+        return -2;
+    for (size_t i = 0; i < n; i++) {
+        refs[i].key = scalar(node_at(c, map->data.mapping.pairs.start[i].key));
+        refs[i].index = i;
+    }
+    qsort(refs, n, sizeof *refs, by_key_then_place);
+    long first = -1;
+    for (size_t i = 1; i < n; i++)
+        if (strcmp(refs[i].key, refs[i - 1].key) == 0 &&
+            (first < 0 || refs[i].index < (size_t)first))
+            first = (long)refs[i].index;
+    free(refs);
+    return first;
+}
+
 /* Check that @map is a mapping whose keys are unique and all allowed. */
 static dk_status
 check_keys(ctx *c, yaml_node_t *map, const char *what,
@@ -83,6 +156,9 @@ check_keys(ctx *c, yaml_node_t *map, const char *what,
         const char *ks = scalar(k);
         if (!ks)
             return fail(c, k, "keys of %s must be plain words", what);
+        if (!dk_text_is_clean(ks, 0))
+            return fail(c, k, "a key of %s contains control characters",
+                        what);
         if (allowed) {
             int ok = 0;
             for (int i = 0; allowed[i]; i++)
@@ -91,11 +167,13 @@ check_keys(ctx *c, yaml_node_t *map, const char *what,
             if (!ok)
                 return fail(c, k, "unknown key '%s' in %s", ks, what);
         }
-        for (yaml_node_pair_t *q = map->data.mapping.pairs.start; q < p; q++)
-            if (strcmp(scalar(node_at(c, q->key)) ? scalar(node_at(c, q->key))
-                                                  : "",
-                       ks) == 0)
-                return fail(c, k, "duplicate key '%s' in %s", ks, what);
+    }
+    long dup = first_duplicate(c, map);
+    if (dup == -2)
+        return dk_error_set(c->err, DK_ENOMEM, "out of memory");
+    if (dup >= 0) {
+        yaml_node_t *k = node_at(c, map->data.mapping.pairs.start[dup].key);
+        return fail(c, k, "duplicate key '%s' in %s", scalar(k), what);
     }
     return DK_OK;
 }
@@ -112,6 +190,23 @@ get(ctx *c, yaml_node_t *map, const char *key)
     return NULL;
 }
 
+/* Keys whose text names something (shown in tables, CSV, file names):
+ * one line. Other texts (citations, notes) may have line breaks. */
+static int
+is_name_key(const char *key)
+{
+    return strcmp(key, "id") == 0 || strcmp(key, "name") == 0 ||
+           strcmp(key, "aliases") == 0;
+}
+
+/* Text from a crystal file reaches terminals, reports and CSV files: no
+ * control characters (escape sequences), and names on one line. */
+static int
+text_ok(const char *key, const char *s)
+{
+    return dk_text_is_clean(s, !is_name_key(key));
+}
+
 static dk_status
 get_string(ctx *c, yaml_node_t *map, const char *key, int required,
            const char **out)
@@ -126,6 +221,10 @@ get_string(ctx *c, yaml_node_t *map, const char *key, int required,
     const char *s = scalar(n);
     if (!s)
         return fail(c, n, "'%s' must be text", key);
+    if (!text_ok(key, s))
+        return fail(c, n, "'%s' contains control characters%s", key,
+                    is_name_key(key) ? " or line breaks (a name is one line)"
+                                     : "");
     *out = dk_arena_strdup(c->arena, s);
     if (!*out)
         return dk_error_set(c->err, DK_ENOMEM, "out of memory");
@@ -205,6 +304,12 @@ get_string_list(ctx *c, yaml_node_t *map, const char *key,
     if (n->type != YAML_SEQUENCE_NODE)
         return fail(c, n, "'%s' must be a list of texts", key);
     int len = seq_len(n);
+    /* Every name of every crystal is compared with every other's when a
+     * folder loads: keep the names few. */
+    if (strcmp(key, "aliases") == 0 && len > DK_CRYSTAL_MAX_ALIASES)
+        return fail(c, n, "more than %d aliases (the limit for a crystal "
+                          "file)",
+                    DK_CRYSTAL_MAX_ALIASES);
     const char **list = dk_arena_alloc(c->arena, sizeof(char *) * (len + 1));
     if (!list)
         return dk_error_set(c->err, DK_ENOMEM, "out of memory");
@@ -212,7 +317,13 @@ get_string_list(ctx *c, yaml_node_t *map, const char *key,
         yaml_node_t *it = node_at(c, n->data.sequence.items.start[i]);
         if (!scalar(it))
             return fail(c, it, "items of '%s' must be texts", key);
+        if (!text_ok(key, scalar(it)))
+            return fail(c, it, "an item of '%s' contains control "
+                               "characters%s",
+                        key, is_name_key(key) ? " or line breaks" : "");
         list[i] = dk_arena_strdup(c->arena, scalar(it));
+        if (!list[i])
+            return dk_error_set(c->err, DK_ENOMEM, "out of memory");
     }
     *out = list;
     *count = len;
@@ -934,46 +1045,152 @@ read_crystal(ctx *c, yaml_node_t *root, dk_crystal *cr)
     return DK_OK;
 }
 
-dk_status
-dk_crystal_load(const char *path, dk_crystal **out, dk_error *err)
+/* A libyaml syntax error, with its position; libyaml's problem texts are
+ * fixed strings, never the file's content. */
+static dk_status
+syntax_error(const char *path, const yaml_parser_t *parser, dk_error *err)
 {
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return dk_error_set(err, DK_EIO, "cannot read '%s': %s", path,
-                            strerror(errno));
+    if (parser->error == YAML_MEMORY_ERROR)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    shown_path p = show_path(path);
+    return dk_error_set(err, DK_EPARSE,
+                        "cannot load '%s': line %zu, column %zu: %s", p.s,
+                        parser->problem_mark.line + 1,
+                        parser->problem_mark.column + 1,
+                        parser->problem ? parser->problem
+                                        : "YAML syntax error");
+}
+
+static dk_status
+limit_error(const char *path, yaml_mark_t at, const char *what,
+            dk_error *err)
+{
+    shown_path p = show_path(path);
+    return dk_error_set(err, DK_EPARSE,
+                        "cannot load '%s': line %zu, column %zu: %s", p.s,
+                        at.line + 1, at.column + 1, what);
+}
+
+/*
+ * First pass over the events of @data: refuse deep nesting, too many
+ * nodes and aliases before libyaml builds the document, so that a hostile
+ * file costs little.
+ */
+static dk_status
+check_shape(const char *path, const unsigned char *data, size_t size,
+            dk_error *err)
+{
+    yaml_parser_t parser;
+    if (!yaml_parser_initialize(&parser))
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    yaml_parser_set_input_string(&parser, data, size);
+    long depth = 0, nodes = 0;
+    char what[160];
+    dk_status s = DK_OK;
+    for (;;) {
+        yaml_event_t ev;
+        if (!yaml_parser_parse(&parser, &ev)) {
+            s = syntax_error(path, &parser, err);
+            break;
+        }
+        yaml_event_type_t type = ev.type;
+        yaml_mark_t at = ev.start_mark;
+        yaml_event_delete(&ev);
+        if (type == YAML_STREAM_END_EVENT)
+            break;
+        if (type == YAML_ALIAS_EVENT) {
+            s = limit_error(path, at,
+                            "aliases (*name) are not allowed in crystal "
+                            "files: write the value out",
+                            err);
+            break;
+        }
+        if (type == YAML_SEQUENCE_END_EVENT || type == YAML_MAPPING_END_EVENT)
+            depth--;
+        if ((type == YAML_SEQUENCE_START_EVENT ||
+             type == YAML_MAPPING_START_EVENT) &&
+            ++depth > DK_CRYSTAL_MAX_DEPTH) {
+            snprintf(what, sizeof what,
+                     "nested more than %d levels deep (the limit for a "
+                     "crystal file)",
+                     DK_CRYSTAL_MAX_DEPTH);
+            s = limit_error(path, at, what, err);
+            break;
+        }
+        if ((type == YAML_SCALAR_EVENT || type == YAML_SEQUENCE_START_EVENT ||
+             type == YAML_MAPPING_START_EVENT) &&
+            ++nodes > DK_CRYSTAL_MAX_NODES) {
+            snprintf(what, sizeof what,
+                     "more than %d keys, values and lists (the limit for a "
+                     "crystal file)",
+                     DK_CRYSTAL_MAX_NODES);
+            s = limit_error(path, at, what, err);
+            break;
+        }
+    }
+    yaml_parser_delete(&parser);
+    return s;
+}
+
+/* The root of a crystal file: a mapping with an 'id' key. */
+static int
+looks_like_crystal(yaml_document_t *doc, yaml_node_t *root)
+{
+    if (!root || root->type != YAML_MAPPING_NODE)
+        return 0;
+    for (yaml_node_pair_t *p = root->data.mapping.pairs.start;
+         p < root->data.mapping.pairs.top; p++) {
+        const char *k = scalar(yaml_document_get_node(doc, p->key));
+        if (k && strcmp(k, "id") == 0)
+            return 1;
+    }
+    return 0;
+}
+
+dk_status
+dk_crystal_load_buffer(const char *path, const void *data, size_t size,
+                       dk_crystal **out, dk_error *err)
+{
+    if (size > DK_CRYSTAL_MAX_BYTES) {
+        shown_path p = show_path(path);
+        return dk_error_set(err, DK_EPARSE,
+                            "cannot load '%s': %zu bytes, more than the %d "
+                            "allowed for a crystal file",
+                            p.s, size, DK_CRYSTAL_MAX_BYTES);
+    }
+    dk_status s = check_shape(path, data, size, err);
+    if (s)
+        return s;
     yaml_parser_t parser;
     yaml_document_t doc;
-    if (!yaml_parser_initialize(&parser)) {
-        fclose(f);
+    if (!yaml_parser_initialize(&parser))
         return dk_error_set(err, DK_ENOMEM, "out of memory");
-    }
-    yaml_parser_set_input_file(&parser, f);
+    yaml_parser_set_input_string(&parser, data, size);
     if (!yaml_parser_load(&parser, &doc)) {
-        dk_status s = dk_error_set(
-            err, DK_EPARSE, "cannot load '%s': line %zu, column %zu: %s",
-            path, parser.problem_mark.line + 1, parser.problem_mark.column + 1,
-            parser.problem ? parser.problem : "YAML syntax error");
+        s = syntax_error(path, &parser, err);
         yaml_parser_delete(&parser);
-        fclose(f);
         return s;
     }
     yaml_parser_delete(&parser);
-    fclose(f);
 
-    dk_status s = DK_OK;
     dk_arena *arena = dk_arena_new();
     dk_crystal *cr = arena ? dk_arena_alloc(arena, sizeof *cr) : NULL;
-    if (!cr) {
+    if (cr)
+        cr->path = dk_arena_strdup(arena, path);
+    if (!cr || !cr->path) {
         dk_arena_free(arena);
         yaml_document_delete(&doc);
         return dk_error_set(err, DK_ENOMEM, "out of memory");
     }
     cr->arena = arena;
-    cr->path = dk_arena_strdup(arena, path);
     ctx c = {path, &doc, arena, err};
     yaml_node_t *root = yaml_document_get_root_node(&doc);
     if (!root)
         s = fail(&c, NULL, "the file is empty");
+    else if (!looks_like_crystal(&doc, root))
+        s = fail(&c, NULL, "not a crystal file: its top level must be a "
+                           "mapping with 'id', 'class' and 'dispersion' "
+                           "(see crystals/README.md)");
     else
         s = read_crystal(&c, root, cr);
     yaml_document_delete(&doc);
@@ -983,4 +1200,83 @@ dk_crystal_load(const char *path, dk_crystal **out, dk_error *err)
     }
     *out = cr;
     return DK_OK;
+}
+
+/*
+ * Read at most DK_CRYSTAL_MAX_BYTES + 1 bytes of the regular file @path
+ * into *data (malloc'd). O_NONBLOCK: opening a FIFO does not wait for a
+ * writer; it is refused by the fstat check that follows.
+ */
+static dk_status
+read_bounded(const char *path, unsigned char **data, size_t *size,
+             dk_error *err)
+{
+    shown_path p = show_path(path);
+    int fd = open(path, O_RDONLY | O_NONBLOCK | O_NOCTTY | O_CLOEXEC);
+    if (fd < 0)
+        return dk_error_set(err, DK_EIO, "cannot read '%s': %s", p.s,
+                            strerror(errno));
+    struct stat st;
+    if (fstat(fd, &st) != 0) {
+        int e = errno;
+        close(fd);
+        return dk_error_set(err, DK_EIO, "cannot read '%s': %s", p.s,
+                            strerror(e));
+    }
+    if (!S_ISREG(st.st_mode)) {
+        close(fd);
+        return dk_error_set(err, DK_EIO,
+                            "cannot read '%s': not a regular file (a crystal "
+                            "file must be a regular file, or a link to one)",
+                            p.s);
+    }
+    if (st.st_size > DK_CRYSTAL_MAX_BYTES) {
+        close(fd);
+        return dk_error_set(err, DK_EPARSE,
+                            "cannot load '%s': %lld bytes, more than the %d "
+                            "allowed for a crystal file",
+                            p.s, (long long)st.st_size, DK_CRYSTAL_MAX_BYTES);
+    }
+    size_t cap = DK_CRYSTAL_MAX_BYTES + 1, len = 0;
+    unsigned char *buf = malloc(cap);
+    if (!buf) {
+        close(fd);
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    }
+    /* The file may grow after fstat: read one byte past the limit to
+     * notice, and let dk_crystal_load_buffer refuse it. */
+    while (len < cap) {
+        ssize_t r = read(fd, buf + len, cap - len);
+        if (r == 0)
+            break;
+        if (r < 0) {
+            if (errno == EINTR)
+                continue;
+            int e = errno;
+            free(buf);
+            close(fd);
+            return dk_error_set(err, DK_EIO, "cannot read '%s': %s", p.s,
+                                strerror(e));
+        }
+        len += (size_t)r;
+    }
+    close(fd);
+    *data = buf;
+    *size = len;
+    return DK_OK;
+}
+
+dk_status
+dk_crystal_load(const char *path, dk_crystal **out, dk_error *err)
+{
+    if (!path || !*path)
+        return dk_error_set(err, DK_EINVAL, "no crystal file named");
+    unsigned char *data = NULL;
+    size_t size = 0;
+    dk_status s = read_bounded(path, &data, &size, err);
+    if (s)
+        return s;
+    s = dk_crystal_load_buffer(path, data, size, out, err);
+    free(data);
+    return s;
 }

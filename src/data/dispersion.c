@@ -201,9 +201,13 @@ dk_index_eval(const dk_dispersion_set *set, const dk_axis_formula *axis,
     if (!eval_jet(set, axis, jet_var(lambda_um), jet_const(temp_c), &nl) ||
         !eval_jet(set, axis, jet_const(lambda_um), jet_var(temp_c), &nt))
         return dk_error_set(err, DK_EDOM,
-                            "data set '%s', axis %c has no finite index at "
-                            "%.6g um, %.6g C (a resonance of the formula)",
-                            set->name, axis->label, lambda_um, temp_c);
+                            "data set '%s', axis %c has no real index at "
+                            "%.6g um, %.6g C: the formula's n^2 is not "
+                            "positive there (at a resonance, or far outside "
+                            "the fitted range %.6g-%.6g um)",
+                            set->name, axis->label, lambda_um, temp_c,
+                            set->wavelength_range_um[0],
+                            set->wavelength_range_um[1]);
 
     out->n = nl.t[0];
     out->dn_dl = nl.t[1];

@@ -7,6 +7,7 @@
 #include <stdio.h>
 
 #include "deltak/material.h"
+#include "deltak/text.h"
 
 /* The axis of @set for (λ) inside @c's transparency range, or an error. */
 static dk_status
@@ -14,12 +15,17 @@ checked_axis(const dk_crystal *c, const dk_dispersion_set *set, char axis,
              double lambda_um, const dk_axis_formula **ax, dk_error *err)
 {
     if (!(lambda_um >= c->transparency_um[0] &&
-          lambda_um <= c->transparency_um[1]))
+          lambda_um <= c->transparency_um[1])) {
+        char v[32], lo[32], hi[32];
+        dk_format_against_range(lambda_um, c->transparency_um[0],
+                                c->transparency_um[1], v, sizeof v);
+        dk_format_exact(c->transparency_um[0], lo, sizeof lo);
+        dk_format_exact(c->transparency_um[1], hi, sizeof hi);
         return dk_error_set(err, DK_ERANGE,
-                            "%.6g um is outside the transparency range "
-                            "%.6g-%.6g um of %s",
-                            lambda_um, c->transparency_um[0],
-                            c->transparency_um[1], c->id);
+                            "%s um is outside the transparency range %s-%s "
+                            "um of %s",
+                            v, lo, hi, c->id);
+    }
     *ax = dk_set_find_axis(set, axis);
     if (!*ax)
         return dk_error_set(err, DK_ENOTFOUND,
@@ -29,6 +35,28 @@ checked_axis(const dk_crystal *c, const dk_dispersion_set *set, char axis,
     return DK_OK;
 }
 
+/* Transparent crystals have 1 < n < 10: anything else is a formula used
+ * far outside its fitted range (e.g. a temperature polynomial at 10^5 C),
+ * not an answer. */
+static dk_status
+physical(const dk_dispersion_set *set, char axis, double lambda_um,
+         double temp_c, double n, dk_error *err)
+{
+    if (n > 1 && n < 10)
+        return DK_OK;
+    const double *r = set->temp_form == DK_TEMP_NONE
+                          ? set->thermo.temperature_range_c
+                          : set->temperature_range_c;
+    return dk_error_set(err, DK_EDOM,
+                        "data set '%s', axis %c gives n = %.4g at %.6g um, "
+                        "%.6g C, which no transparent crystal has: the "
+                        "formula is used far outside its fitted range "
+                        "(%.6g-%.6g um, %.6g-%.6g C)",
+                        set->name, axis, n, lambda_um, temp_c,
+                        set->wavelength_range_um[0],
+                        set->wavelength_range_um[1], r[0], r[1]);
+}
+
 dk_status
 dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
                   char axis, double lambda_um, double temp_c,
@@ -36,7 +64,9 @@ dk_material_index(const dk_crystal *c, const dk_dispersion_set *set,
 {
     const dk_axis_formula *ax;
     dk_status s = checked_axis(c, set, axis, lambda_um, &ax, err);
-    return s ? s : dk_index_eval(set, ax, lambda_um, temp_c, out, err);
+    if (!s)
+        s = dk_index_eval(set, ax, lambda_um, temp_c, out, err);
+    return s ? s : physical(set, axis, lambda_um, temp_c, out->n, err);
 }
 
 dk_status
@@ -51,9 +81,12 @@ dk_material_n(const dk_crystal *c, const dk_dispersion_set *set, char axis,
     double v = dk_index_n(set, ax, lambda_um, temp_c);
     if (!isfinite(v))
         return dk_error_set(err, DK_EDOM,
-                            "data set '%s', axis %c has no finite index at "
-                            "%.6g um, %.6g C",
+                            "data set '%s', axis %c has no real index at "
+                            "%.6g um, %.6g C (a resonance of the formula, "
+                            "or far outside its fitted range)",
                             set->name, axis, lambda_um, temp_c);
+    if ((s = physical(set, axis, lambda_um, temp_c, v, err)))
+        return s;
     *n = v;
     if (warnings)
         *warnings = dk_set_range_warnings(set, lambda_um, temp_c);

@@ -893,7 +893,12 @@ gv_mismatch(double alpha, void *p)
     const dk_waves *w = &mp->pb->waves;
     double ngs = m[0].n - w->signal_um * m[0].dn_dl;
     double ngi = m[1].n - w->idler_um * m[1].dn_dl;
-    double cosom = ss[0] * si[0] + ss[1] * si[1] + ss[2] * si[2];
+    /* Collinear, cos Ω is 1 exactly (the product of a unit vector with
+     * itself can round below 1, which would hide the root at α = 0 of a
+     * degenerate design). */
+    double cosom = mp->pb->alpha_rad == 0
+                       ? 1
+                       : ss[0] * si[0] + ss[1] * si[1] + ss[2] * si[2];
     return ngs * cosom - ngi;
 }
 

@@ -13,6 +13,7 @@
 
 #include "deltak/constants.h"
 #include "deltak/design.h"
+#include "deltak/text.h"
 #include "design_internal.h"
 
 void
@@ -244,13 +245,18 @@ check_transparency(const dk_design *d, const dk_waves *w, dk_error *err)
     for (int k = 0; k < 3; k++) {
         if (!(lam[k] > 0))
             continue;
-        if (lam[k] < c->transparency_um[0] || lam[k] > c->transparency_um[1])
+        if (lam[k] < c->transparency_um[0] ||
+            lam[k] > c->transparency_um[1]) {
+            char v[32], lo[32], hi[32];
+            dk_format_against_range(lam[k], c->transparency_um[0],
+                                    c->transparency_um[1], v, sizeof v);
+            dk_format_exact(c->transparency_um[0], lo, sizeof lo);
+            dk_format_exact(c->transparency_um[1], hi, sizeof hi);
             return dk_error_set(err, DK_ERANGE,
-                                "the %s (%.6g um) is outside the "
-                                "transparency range %.6g-%.6g um of %s",
-                                dk_design_wave_name(d, k), lam[k],
-                                c->transparency_um[0], c->transparency_um[1],
-                                c->id);
+                                "the %s (%s um) is outside the transparency "
+                                "range %s-%s um of %s",
+                                dk_design_wave_name(d, k), v, lo, hi, c->id);
+        }
     }
     return DK_OK;
 }
@@ -273,6 +279,22 @@ check_request(const dk_design_request *rq, dk_error *err)
         return dk_error_set(err, DK_EINVAL,
                             "temperature %g C is below absolute zero",
                             rq->temp_c);
+    if (isfinite(rq->temp_range_c[0]) || isfinite(rq->temp_range_c[1])) {
+        const double *r = rq->temp_range_c;
+        if (!(r[0] < r[1]) || r[0] < DK_ABSOLUTE_ZERO_C ||
+            r[1] > DK_DESIGN_MAX_TEMP_C)
+            return dk_error_set(err, DK_EINVAL,
+                                "temperature range %g-%g C must have low < "
+                                "high within %g to %g C (no data set is "
+                                "fitted beyond a few hundred C)",
+                                r[0], r[1], DK_ABSOLUTE_ZERO_C,
+                                DK_DESIGN_MAX_TEMP_C);
+    }
+    if (isfinite(rq->temp_c) && rq->temp_c > DK_DESIGN_MAX_TEMP_C)
+        return dk_error_set(err, DK_EINVAL,
+                            "temperature %g C is above %g C, where no data "
+                            "set says anything",
+                            rq->temp_c, DK_DESIGN_MAX_TEMP_C);
     if (isfinite(rq->length_mm) && !(rq->length_mm > 0))
         return dk_error_set(err, DK_EINVAL,
                             "crystal length must be positive");

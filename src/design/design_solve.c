@@ -204,7 +204,13 @@ solve_broadband(dk_design *d, dk_error *err)
                 dk_angle_best_phi(&pb, &a);
             else if (dk_angle_describe(&pb, &a, NULL))
                 continue;
-            if (d->nsol < DK_DESIGN_MAX_SOL)
+            /* At degeneracy both sides give α = 0: one solution. */
+            int dup = 0;
+            for (int k = 0; k < d->nsol && !dup; k++)
+                dup = !strcmp(d->sol[k].pol, a.pol) &&
+                      fabs(d->sol[k].alpha_rad - alpha) < 1e-12 &&
+                      fabs(d->sol[k].theta_rad - a.theta_rad) < 1e-9;
+            if (!dup && d->nsol < DK_DESIGN_MAX_SOL)
                 angle_solution(d, &a, alpha, &d->sol[d->nsol++]);
         }
     }

@@ -4,13 +4,13 @@
  *
  * The format follows the file name's extension. The figure is laid out
  * first (so that a bad figure fails before any file exists), then drawn
- * into a temporary file created beside the target (same directory, hence
- * same file system, so rename() is atomic; O_EXCL, mode 0666 less the
- * umask, as an ordinary new file). Cairo writes through a stream callback
- * that records the first write error. Only when cairo reports success
- * for the drawing and the surface, and the data are flushed and synced,
- * is the temporary file renamed over the target; on any failure it is
- * removed.
+ * into a file opened with dk_safe_write_open() (deltak/safe_write.h: a
+ * temporary file created exclusively beside a regular target and renamed
+ * over it atomically; devices, FIFOs and links to them written in place,
+ * never replaced; temporary files removed on SIGINT/SIGTERM). Cairo writes
+ * through a stream callback that records the first write error. Only when
+ * cairo reports success for the drawing and the surface is the file
+ * committed; on any failure it is aborted and the target left as it was.
  *
  * Reproducible bytes: PNG has no time stamp. Cairo's PDF carries a creation
  * date unless it is set; from cairo 1.16 on we set it empty, which cairo
@@ -30,17 +30,16 @@
  *   cairo_svg_surface_set_document_unit, cairo_surface_write_to_png_stream.
  */
 #include <errno.h>
-#include <fcntl.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
-#include <unistd.h>
 
 #include <cairo-pdf.h>
 #include <cairo-svg.h>
 
+#include "deltak/safe_write.h"
 #include "plot_internal.h"
 
 #define VECTOR_RASTER_PPI 200.0   /* map image resolution in PDF/SVG */
@@ -49,7 +48,6 @@
  * megapixels is about 260 MB (an 8000 x 8000 image; a 1 x 1 m figure at
  * 300 dpi would be 139 megapixels and 560 MB). */
 #define PNG_MAX_PIXELS 64e6
-#define TEMP_TRIES 100
 
 typedef enum { FMT_PDF, FMT_SVG, FMT_PNG } fmt;
 
@@ -187,38 +185,6 @@ format_of(const char *path, fmt *f)
     else
         return 0;
     return 1;
-}
-
-/* Create "<dir>/.<base>.<pid>-<n>.tmp" with O_EXCL; its name in *tmp
- * (malloc'd). Returns the descriptor, or -1 with errno set. */
-static int
-open_temp(const char *path, char **tmp)
-{
-    static unsigned counter;
-    const char *slash = strrchr(path, '/');
-    size_t dirlen = slash ? (size_t)(slash - path) + 1 : 0;
-    const char *base = slash ? slash + 1 : path;
-    size_t size = strlen(path) + 48;
-    char *name = malloc(size);
-    if (!name) {
-        errno = ENOMEM;
-        return -1;
-    }
-    for (int k = 0; k < TEMP_TRIES; k++) {
-        snprintf(name, size, "%.*s.%s.%ld-%u.tmp", (int)dirlen, path, base,
-                 (long)getpid(), counter++);
-        int fd = open(name, O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
-        if (fd >= 0) {
-            *tmp = name;
-            return fd;
-        }
-        if (errno != EEXIST)
-            break;
-    }
-    int e = errno;
-    free(name);
-    errno = e;
-    return -1;
 }
 
 /* Map a cairo status to ours, with a message naming @path. */
@@ -384,32 +350,14 @@ write_layout(const dk_plot *p, const plot_layout *L, fmt f, const char *path,
 {
     dk_status st;
 
-    char *tmp = NULL;
-    int fd = open_temp(path, &tmp);
-    if (fd < 0)
-        return dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
-                            strerror(errno));
-    sink s = {fdopen(fd, "wb"), 0};
-    if (!s.fp) {
-        int e = errno;
-        close(fd);
-        unlink(tmp);
-        free(tmp);
-        return dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
-                            strerror(e));
-    }
+    dk_safe_file *out = NULL;
+    if ((st = dk_safe_write_open(path, &out, err)))
+        return st;
+    sink s = {dk_safe_write_stream(out), 0};
     st = render(p, L, f, &s, path, err);
-    if (!st && (fflush(s.fp) != 0 || fsync(fileno(s.fp)) != 0))
-        st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
-                          strerror(errno));
-    if (fclose(s.fp) != 0 && !st)
-        st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
-                          strerror(errno));
-    if (!st && rename(tmp, path) != 0)
-        st = dk_error_set(err, DK_EIO, "cannot write '%s': %s", path,
-                          strerror(errno));
-    if (st)
-        unlink(tmp);
-    free(tmp);
-    return st;
+    if (st) {
+        dk_safe_write_abort(out);
+        return st;
+    }
+    return dk_safe_write_commit(out, err);
 }

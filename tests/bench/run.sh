@@ -10,12 +10,15 @@
 #               fork/exec, best and median of repeated runs), and a
 #               three-curve tuning figure rendered to PDF
 #   index       bench_index: database load and n(λ, T) with derivatives
+#   simulate    bench_simulate: the pulsed three-wave mixing solver
+#   instructions  callgrind's count for one whole command, when valgrind
+#               is installed (repeatable whatever else the machine does)
 #
 # The machine may be shared: figures are the best of several runs.
 DK=${1:-build/deltak}
 DIR=$(dirname "$DK")
 HERE=$(dirname "$0")
-for b in bench_speed bench_run bench_index; do
+for b in bench_speed bench_run bench_index bench_simulate; do
     make -s "$DIR/$b" >/dev/null 2>&1 || { echo "error: cannot build $DIR/$b"; exit 1; }
 done
 get() { sed -n "s/^$1 //p" "$DIR/bench.out"; }
@@ -87,3 +90,15 @@ rm -f "$DIR/bench-tuning.pdf" "$DIR/bench-map.png"
 echo
 echo "== index evaluation"
 "$DIR/bench_index"
+
+echo
+echo "== pulsed three-wave mixing"
+"$DIR/bench_simulate"
+
+if command -v valgrind >/dev/null 2>&1; then
+    out=$(valgrind --tool=callgrind --callgrind-out-file=/dev/null "$DK" index \
+          --crystal MgO:LN --wavelength 1064nm --temp 40 --json 2>&1 >/dev/null |
+          sed -n 's/.*Collected : //p')
+    echo
+    echo "deltak index (whole program, load database + evaluate): $out instructions"
+fi

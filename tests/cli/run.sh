@@ -60,7 +60,7 @@ expect index-bad-set 1 "no data set 'nobody1999'" -- index --crystal MgO:LN --wa
 expect index-no-crystal 2 '--crystal is required' -- index --wavelength 1um
 expect index-bad-temp 2 "cannot read temperature" -- index --crystal MgO:LN --wavelength 1um --temp hot
 expect index-kelvin 0 '40 C' -- index --crystal MgO:LN --wavelength 1um --temp 313.15K
-expect index-bad-option 2 'unknown or incomplete option' -- index --crystal MgO:LN --wavelength 1um --frobnicate
+expect index-bad-option 2 'unknown option' -- index --crystal MgO:LN --wavelength 1um --frobnicate
 expect index-csv 0 '^crystal,dispersion,axis,wavelength_um' -- index --crystal MgO:LN --wavelength 1064nm --csv
 expect index-all-sets 0 'spread between data sets' -- index --crystal MgO:LN --wavelength 1064nm --all-sets
 expect index-wavenumber 0 '9398.50 cm-1' -- index --crystal MgO:LN --wavelength 9398.496cm-1
@@ -141,6 +141,27 @@ expect sweep-bad-ext 1 'unknown figure format' -- sweep --crystal MgO:LN --pump 
 expect angle-curve 0 '^pol,phi_deg,theta_deg' -- angle --crystal KTP --fundamental 1064nm --curve --pol sff
 expect angle-spread 0 'spread over 3 data sets' -- angle --crystal BBO --fundamental 1064nm --type I --all-sets
 
+# Numbers and options under careless and hostile input (issue 13).
+expect order-wrap 2 'from 1 to 99' -- period --crystal MgO:LN --fundamental 1064nm --order 4294967297
+expect length-overflow 2 'length' -- tolerance --crystal MgO:LN --fundamental 1064nm --length 1e308m
+expect phi-empty 2 "phi '' must be" -- angle --crystal BBO --fundamental 1064nm --phi ''
+expect alpha-nan 2 'noncollinear' -- angle --crystal BBO --pump 400nm --signal 600nm --noncollinear nan
+expect hex-wavelength 2 'wavelength' -- index --crystal BBO --wavelength 0x1p0um
+expect repeated-option 2 'given twice' -- period --crystal MgO:LN --fundamental 1064nm --temp 20 --temp 30
+expect isotropic-pol 2 'polarisation letters do not apply' -- period --crystal GaAs --fundamental 4um --pol zzz
+expect unphysical-index 1 'which no transparent crystal has' -- index --crystal MgO:LN --wavelength 1064nm --temp 100000
+expect hot-design 2 'above 1000 C' -- period --crystal MgO:LN --fundamental 1064nm --temp 100000
+expect huge-temp-range 2 'temperature range' -- period --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --temp-range -200:1e6
+expect sweep-no-solution 1 'no point of the sweep has a solution' -- sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.36um:0.38um:5 --solve theta
+no_stdout sweep-no-solution-quiet sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.36um:0.38um:5 --solve theta
+expect sweep-huge-range 2 'outside what a sweep takes' -- sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=20:1e308:5 --solve period
+expect broadband-degenerate 0 'o o e +- +29\.2[0-9]* +90\.000 +1\.9' -- angle --crystal BBO --pump 400nm --signal 800nm --broadband
+expect exact-bound 1 '0\.3499999 um is outside the transparency range 0\.35-5 um' -- index --crystal MgO:LN --wavelength 0.3499999um
+expect no-pm-exit 1 'does not phase-match' -- angle --crystal BBO --fundamental 400nm --type I
+"$DK" index --crystal "$(printf 'BB\033[2JO')" --wavelength 1um 2>"$tmp/err" >/dev/null
+if grep -q 'BB\\x1b\[2JO' "$tmp/err" && ! grep -q "$(printf '\033')" "$tmp/err"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: control-chars-escaped"; fi
+
 # The range policy in every command: an answer outside the data set's
 # fitted range is flagged naming the wave, in text, JSON and CSV.
 # MgO:LN Gayer2008 is fitted over 0.5-4 um, so a 4.5 um idler is outside;
@@ -194,16 +215,75 @@ if "$DK" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:21 --solve
 if [ $? -eq 1 ] && [ -z "$(ls "$tmp" | grep -v -e db -e out -e err -e '^t\.')" ]; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: plot-unwritable"; ls "$tmp"; fi
 
-# Design files: a report only when every step succeeds.
-printf 'title: test design\nreport: %s/r.md\nperiod --crystal MgO:LN --fundamental 1064nm\nangle --crystal BBO --fundamental "1064nm" --type I\n' "$tmp" > "$tmp/ok.dk"
-printf 'report: %s/bad.md\nperiod --crystal MgO:LN --fundamental 1064nm\nperiod --crystal unobtainium --fundamental 1064nm\n' "$tmp" > "$tmp/bad.dk"
+# Design files: a report only when every step succeeds; paths are taken
+# from the design file's folder and stay inside it.
+printf 'title: test design\nreport: r.md\nperiod --crystal MgO:LN --fundamental 1064nm\nangle --crystal BBO --fundamental "1064nm" --type I\n' > "$tmp/ok.dk"
+printf 'report: bad.md\nperiod --crystal MgO:LN --fundamental 1064nm\nperiod --crystal unobtainium --fundamental 1064nm\n' > "$tmp/bad.dk"
 expect run-ok 0 'ran 2 steps' -- run "$tmp/ok.dk"
-if grep -q '^## Laser safety' "$tmp/r.md" && grep -q 'Gayer2008' "$tmp/r.md"; then
+if grep -q '^## Laser safety' "$tmp/r.md" && grep -q 'Gayer2008' "$tmp/r.md" &&
+   python3 -c "import json; d=json.load(open('$tmp/r.json')); assert d['steps'][0]['result']['period_um'] > 6" 2>/dev/null; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-report-content"; fi
 expect run-fail 1 'line 3 failed' -- run "$tmp/bad.dk"
-if [ ! -e "$tmp/bad.md" ] && ! ls "$tmp" | grep -q 'bad.md.tmp'; then
+if [ ! -e "$tmp/bad.md" ] && ! ls -a "$tmp" | grep -q '\.tmp$'; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-fail-no-report"; fi
 expect run-missing 1 'cannot read design file' -- run "$tmp/none.dk"
+expect run-report-after 0 'ran 2 steps' -- run "$tmp/ok.dk" --report "$tmp/r2.md"
+# A design file never runs another, however the line is written.
+for form in 'run ok.dk' '  run ok.dk' '"run" ok.dk' "$(printf '\trun ok.dk')" 'deltak run ok.dk' 'deltak  "run" ok.dk'; do
+    printf '%s\n' "$form" > "$tmp/self.dk"
+    expect "run-self:$form" 1 'not a command a design file may run' -- run "$tmp/self.dk"
+done
+DELTAK_RUN_DEPTH=1 "$DK" run "$tmp/ok.dk" >/dev/null 2>"$tmp/err"
+if [ $? -eq 1 ] && grep -q 'cannot run another design file' "$tmp/err"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-depth"; fi
+# Over-long lines, NUL bytes and control characters are refused with the
+# line number; nothing of such a line runs.
+python3 -c "print('# ' + 'x' * 5000); print('period --crystal MgO:LN --fundamental 1064nm')" > "$tmp/long.dk"
+expect run-long-line 1 'line 1 is longer than' -- run "$tmp/long.dk"
+printf 'period --crystal MgO:LN --fundamental 1064nm\nperiod --crystal MgO:LN\000 --fundamental 1064nm\n' > "$tmp/nul.dk"
+expect run-nul 1 'line 2: a NUL byte' -- run "$tmp/nul.dk"
+printf 'title: a\033[2Jb\nperiod --crystal MgO:LN --fundamental 1064nm\n' > "$tmp/ctl.dk"
+expect run-control 1 'line 1: a control character' -- run "$tmp/ctl.dk"
+# Outputs only inside the design file's folder, never through a link.
+printf 'report: ../escape.md\nperiod --crystal MgO:LN --fundamental 1064nm\n' > "$tmp/esc.dk"
+expect run-escape 1 'leaves the design file' -- run "$tmp/esc.dk"
+printf 'report: /tmp/abs.md\nperiod --crystal MgO:LN --fundamental 1064nm\n' > "$tmp/abs.dk"
+expect run-absolute 1 'must be a path inside' -- run "$tmp/abs.dk"
+printf 'sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot ../f.svg\n' > "$tmp/fig.dk"
+expect run-figure-escape 1 'leaves the design file' -- run "$tmp/fig.dk"
+echo victim > "$tmp/victim.txt"
+ln -s "$tmp/victim.txt" "$tmp/link.md"
+printf 'report: link.md\nperiod --crystal MgO:LN --fundamental 1064nm\n' > "$tmp/link.dk"
+expect run-link 1 'not a regular file' -- run "$tmp/link.dk"
+if [ "$(cat "$tmp/victim.txt")" = victim ]; then pass=$((pass + 1)); else
+    fail=$((fail + 1)); echo "not ok: run-link-victim-untouched"; fi
+# A figure and the report beside it, the figure referenced from the report.
+mkdir -p "$tmp/proj"
+printf 'report: out/p.md\nsweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot out/t.svg\n' > "$tmp/proj/p.dk"
+expect run-figure 0 'ran 1 steps' -- run "$tmp/proj/p.dk"
+if [ -s "$tmp/proj/out/t.svg" ] && grep -q '(t.svg)' "$tmp/proj/out/p.md"; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-figure-beside-report"; fi
+# A killed run leaves no step running and no temporary file behind.
+mkdir -p "$tmp/slow"
+printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --plot slow.svg\n' > "$tmp/slow/s.dk"
+"$DK" run "$tmp/slow/s.dk" >/dev/null 2>&1 &
+runpid=$!
+sleep 1
+kill -TERM $runpid 2>/dev/null
+wait $runpid 2>/dev/null
+sleep 0.5
+if ! pgrep -f "$tmp/slow/slow.svg" >/dev/null && [ -z "$(ls -A "$tmp/slow" | grep -v '^s.dk$')" ]; then
+    pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-killed-cleanly"; ls -A "$tmp/slow"; pkill -f "$tmp/slow/slow.svg"; fi
+expect run-check 0 '2 steps, checked; nothing run' -- run "$tmp/ok.dk" --check
+
+# Write errors on standard output are failures, not silent successes.
+if [ -w /dev/full ]; then
+    for c in --version --help "run $tmp/ok.dk" "crystals"; do
+        "$DK" $c >/dev/full 2>/dev/null
+        if [ $? -ne 0 ]; then pass=$((pass + 1)); else
+            fail=$((fail + 1)); echo "not ok: full-disk: deltak $c exited 0"; fi
+    done
+fi
 
 # A broken crystal file is reported with file, line and column and skipped.
 mkdir -p "$tmp/db"
