@@ -67,8 +67,7 @@ small_int(double e)
 
 /* The canonical form of the compiled terms, when they have one. */
 static void
-canonicalise(const dk_dispersion_set *set, const dk_axis_formula *axis,
-             dk_nfast *f)
+canonicalise(dk_nfast *f)
 {
     dk_nfast_canon *cf = &f->cf;
     memset(cf, 0, sizeof *cf);
@@ -107,8 +106,6 @@ canonicalise(const dk_dispersion_set *set, const dk_axis_formula *axis,
             return;
         }
     }
-    (void)set;
-    (void)axis;
     f->canonical = 1;
 }
 
@@ -160,7 +157,7 @@ dk_nfast_compile(const dk_dispersion_set *set, const dk_axis_formula *axis,
         ok &= isfinite(o->s) && isfinite(o->p) && isfinite(o->b2);
     }
     if (ok)
-        canonicalise(set, axis, out);
+        canonicalise(out);
     if (set->has_thermo && axis->has_thermo) {
         const dk_thermo *th = &set->thermo;
         double dt = temp_c - th->reference_temperature_c, dtk = 1;
