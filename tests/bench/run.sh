@@ -96,9 +96,19 @@ echo "== pulsed three-wave mixing"
 "$DIR/bench_simulate"
 
 if command -v valgrind >/dev/null 2>&1; then
-    out=$(valgrind --tool=callgrind --callgrind-out-file=/dev/null "$DK" index \
-          --crystal MgO:LN --wavelength 1064nm --temp 40 --json 2>&1 >/dev/null |
-          sed -n 's/.*Collected : //p')
     echo
-    echo "deltak index (whole program, load database + evaluate): $out instructions"
+    echo "== instructions per whole command (callgrind; independent of the machine's load)"
+    count() {
+        label=$1; shift
+        n=$(valgrind --tool=callgrind --callgrind-out-file=/dev/null "$DK" "$@" \
+            2>&1 >/dev/null | sed -n 's/.*Collected : //p')
+        printf '%-46s %12s instructions\n' "$label" "$n"
+    }
+    count "deltak --version (start-up alone)" --version
+    count "index MgO:LN (load + evaluate)" index --crystal MgO:LN --wavelength 1064nm --temp 40 --json
+    count "period MgO:LN 1064 nm -> 3.4 um at 100 C" period --crystal MgO:LN --pump 1064nm --idler 3.4um --temp 100
+    count "angle BBO SHG of 1064 nm" angle --crystal BBO --fundamental 1064nm
+    count "angle KTP type II SHG of 1064 nm" angle --crystal KTP --fundamental 1064nm --type II
+    count "sweep: three-curve tuning figure, PDF" sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um --solve idler --family temp=30,100,170 --plot "$DIR/bench-tuning.pdf"
+    rm -f "$DIR/bench-tuning.pdf"
 fi
