@@ -265,7 +265,8 @@ if [ -s "$tmp/proj/out/t.svg" ] && grep -q '(t.svg)' "$tmp/proj/out/p.md"; then
     pass=$((pass + 1)); else fail=$((fail + 1)); echo "not ok: run-figure-beside-report"; fi
 # A killed run leaves no step running and no temporary file behind.
 mkdir -p "$tmp/slow"
-printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --plot slow.svg\n' > "$tmp/slow/s.dk"
+# (twelve family members: seconds of work even for the fast engine)
+printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --family length=5mm,6mm,7mm,8mm,9mm,10mm,11mm,12mm,13mm,14mm,15mm,16mm --plot slow.svg\n' > "$tmp/slow/s.dk"
 "$DK" run "$tmp/slow/s.dk" >/dev/null 2>&1 &
 runpid=$!
 sleep 1
