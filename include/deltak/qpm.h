@@ -9,8 +9,10 @@
  * not matter), with Λ_w the period as written at T_w (default 25 °C) and
  * e the thermal expansion along the grating axis from the crystal file.
  * Beams propagate along the grating axis; each wave's polarisation is a
- * principal axis. References: M. M. Fejer, G. A. Magel, D. H. Jundt,
- * R. L. Byer, IEEE J. Quantum Electron. 28, 2631 (1992).
+ * principal axis. Range flags of answers are the design layer's
+ * (dk_design_range_flags() in deltak/design.h); the solvers keep none.
+ * References: M. M. Fejer, G. A. Magel, D. H. Jundt, R. L. Byer, IEEE J.
+ * Quantum Electron. 28, 2631 (1992).
  */
 #ifndef DK_QPM_H
 #define DK_QPM_H
@@ -26,9 +28,6 @@ typedef struct dk_qpm {
     int order;              /* QPM order m ≥ 1 */
     double duty;            /* duty cycle, 0 < D < 1 */
     double written_temp_c;  /* the period is as written at this T */
-    unsigned warnings;      /* DK_WARN_* of every evaluation so far */
-    double warn_lambda_um;  /* a wavelength that raised a warning */
-    double warn_temp_c;     /* a temperature that raised a warning */
 } dk_qpm;
 
 /*

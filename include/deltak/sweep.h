@@ -24,9 +24,22 @@
  * Every point carries the DK_RANGE_* flags of deltak/design.h; notes say
  * which wave left which fitted range and how far.
  *
+ * How (the answers are those of dk_sweep_solve() and dk_sweep_sinc2() at
+ * every point; only the work differs): roots along a curve and the map's
+ * Δk = 0 line are followed by continuation from point to point (Newton on
+ * exact derivatives, a bracketed safeguard, the scan's grid kept under
+ * watch so that every root the full scan finds is found), and the points
+ * where two branches meet - signal and idler at degeneracy - are added to
+ * the series they end or start; maps and sinc² curves (QPM, or a
+ * birefringent design at a fixed direction) are computed in vectorised
+ * lines with the formulas compiled once per temperature; family members
+ * and map lines run on all cores (OpenMP), with results that do not
+ * depend on the number of threads.
+ *
  * Limits (a request beyond them is an error, never cut silently):
  * DK_SWEEP_MAX_POINTS points per curve, DK_SWEEP_MAX_FAMILY family
- * members, DK_MAP_MAX_CELLS map cells (about 9 bytes each).
+ * members, DK_MAP_MAX_CELLS map cells (about 10 bytes each while the map
+ * is made, 9 in the result).
  */
 #ifndef DK_SWEEP_H
 #define DK_SWEEP_H

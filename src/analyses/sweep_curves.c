@@ -3,9 +3,14 @@
  * series of (x, y, range flags) (see deltak/sweep.h).
  *
  * Roots at each point are sorted; branch k of a curve joins the k-th
- * roots of neighbouring points. Analyses bring the design back to phase
- * matching at each point before they are evaluated, starting from the
- * previous point's angle (a continuation along the curve).
+ * roots of neighbouring points. The roots come from the tracer
+ * (sweep_trace.c): the roots dk_sweep_solve() finds at each point, by
+ * continuation, plus the turning points where two branches meet (or a
+ * signal/idler pair meets at degeneracy): those are inserted into the
+ * series they end (or start), and the line is broken there when the
+ * series goes on with another branch. Analyses bring the design back to
+ * phase matching at each point before they are evaluated, starting from
+ * the previous point's angle (a continuation along the curve).
  */
 #include <math.h>
 #include <stdio.h>
@@ -14,6 +19,7 @@
 
 #include "deltak/pulse.h"
 #include "deltak/sweep.h"
+#include "sweep_internal.h"
 
 #define R DK_SWEEP_MAX_ROOTS
 
@@ -22,6 +28,7 @@ typedef struct point {
     int n;
     double y[R];
     unsigned f[R];
+    int src[R];      /* root each value comes from (solve; −1 unknown) */
 } point;
 
 static const struct {
@@ -305,6 +312,320 @@ add_series(dk_sweep_result *res, const dk_sweep_spec *sp, int f,
     return DK_OK;
 }
 
+/* Range flags of the values of one solved point, as eval_point() sets
+ * them, and the flagged ones into the span. */
+typedef struct solve_ctx {
+    const dk_sweep_spec *sp;
+    point *pts;
+    dk_range_span *ex;
+    long valued;
+} solve_ctx;
+
+static void
+solve_each(void *vctx, int i, dk_sweep *s, const trace_point *tp)
+{
+    solve_ctx *c = vctx;
+    const dk_sweep_spec *sp = c->sp;
+    point *pt = &c->pts[i];
+    dk_design *d = &s->d;
+    pt->n = tp->n;
+    for (int k = 0; k < tp->n; k++) {
+        pt->y[k] = tp->v[k];
+        pt->src[k] = tp->src[k];
+    }
+    for (int k = 0; k < tp->n; k++) {
+        dk_waves w;
+        double t;
+        if (sp->target == DK_VAR_WAVELENGTHS) {
+            w = d->waves;
+            w.signal_um = pt->y[k & ~1];
+            w.idler_um = (k | 1) < pt->n ? pt->y[k | 1] : NAN;
+            t = d->temp_c;
+        } else {
+            point_state(s, sp->target, pt->y[k], &w, &t);
+        }
+        pt->f[k] = dk_design_range_flags(d, &w, t);
+        if (pt->f[k])
+            dk_range_span_add(c->ex, pt->f[k], &w, t);
+    }
+    c->valued += pt->n > 0;
+}
+
+/* The SP_WAVE_* kind of value slot @k of a solved point. */
+static int
+slot_wave(const dk_sweep_spec *sp, int k)
+{
+    switch (sp->target) {
+    case DK_VAR_WAVELENGTHS: return k % 2 ? SP_WAVE_IDLER : SP_WAVE_SIGNAL;
+    case DK_VAR_SIGNAL: return SP_WAVE_SIGNAL;
+    case DK_VAR_IDLER: return SP_WAVE_IDLER;
+    default: return SP_WAVE_SELF;
+    }
+}
+
+static int
+from_fold(const point *pt, int k, const sweep_fold *f)
+{
+    return k < pt->n && pt->src[k] >= 0 &&
+           (pt->src[k] == f->root[0] || pt->src[k] == f->root[1]);
+}
+
+/* Series of the solved points of one family member, with the turning
+ * points inserted (see the top of this file). */
+static dk_status
+add_solve_series(dk_sweep_result *res, const dk_sweep_spec *sp, int f,
+                 const double *xs, const point *pts, const sweep_fold *folds,
+                 int nfolds, dk_range_span *ex, dk_error *err)
+{
+    int pairs = sp->target == DK_VAR_WAVELENGTHS;
+    int maxk = 0;
+    for (int i = 0; i < sp->nx; i++)
+        maxk = pts[i].n > maxk ? pts[i].n : maxk;
+    char fam[40] = "";
+    if (sp->nfamily)
+        family_label(sp->family, sp->family_values[f], fam, sizeof fam);
+    for (int k = 0; k < maxk; k++) {
+        dk_series *s = new_series(res, (size_t)sp->nx + 2 * (size_t)nfolds);
+        if (!s)
+            return dk_error_set(err, DK_ENOMEM, "out of memory");
+        s->family = sp->nfamily ? f : -1;
+        s->branch = pairs ? k / 2 : k;
+        s->wave = pairs ? k % 2 : -1;
+        char br[40] = "";
+        if (pairs)
+            snprintf(br, sizeof br, "%s%s", k % 2 ? "idler" : "signal",
+                     maxk > 2 ? (k / 2 ? " (2nd pair)" : " (1st pair)") : "");
+        snprintf(s->label, sizeof s->label, "%s%s%s", fam,
+                 fam[0] && br[0] ? ", " : "", br);
+        size_t m = 0;
+        int e = 0, wave = slot_wave(sp, k);
+        for (int i = 0; i < sp->nx; i++) {
+            s->x[m] = xs[i];
+            s->y[m] = k < pts[i].n ? pts[i].y[k] : NAN;
+            s->flags[m] = k < pts[i].n ? pts[i].f[k] : 0;
+            res->flags |= s->flags[m];
+            m++;
+            /* Turning points between this point and the next. */
+            for (; e < nfolds && folds[e].at - folds[e].birth <= i; e++) {
+                const sweep_fold *fo = &folds[e];
+                if (fo->at - fo->birth < i || i + 1 >= sp->nx)
+                    continue;
+                int here = fo->birth ? from_fold(&pts[i + 1], k, fo)
+                                     : from_fold(&pts[i], k, fo);
+                if (!here)
+                    continue;
+                int go_on = k < pts[i + 1].n;
+                int came = k < pts[i].n;
+                if (fo->birth && came)
+                    s->x[m] = fo->x, s->y[m] = NAN, s->flags[m++] = 0;
+                s->x[m] = fo->x;
+                s->y[m] = fo->y[wave];
+                s->flags[m] = fo->flags;
+                res->flags |= fo->flags;
+                if (fo->flags)
+                    dk_range_span_add(ex, fo->flags, &fo->waves, fo->temp_c);
+                m++;
+                if (!fo->birth && go_on)
+                    s->x[m] = fo->x, s->y[m] = NAN, s->flags[m++] = 0;
+            }
+        }
+        s->n = m;
+    }
+    return DK_OK;
+}
+
+/* What one family member of a solve sweep gives. */
+typedef struct member {
+    dk_status status;
+    dk_error err;           /* why, when status is not DK_OK */
+    dk_error first;         /* its first point without a value */
+    dk_sweep_result part;   /* its series */
+    dk_range_span ex;
+    long valued;
+} member;
+
+/* One family member (@f; −1: no family) traced with the scratch @s, @pts
+ * and @tp, its series into m->part. */
+static void
+solve_member(const dk_design *base, const dk_sweep_spec *sp, int f,
+             const double *xs, dk_sweep *s, point *pts, trace_point *tp,
+             member *m)
+{
+    memset(&m->part, 0, sizeof m->part);
+    dk_range_span_init(&m->ex);
+    dk_sweep_init(s, base);
+    if (f >= 0 &&
+        (m->status = dk_sweep_set(s, sp->family, sp->family_values[f],
+                                  &m->err)))
+        return;
+    for (int i = 0; i < sp->nx; i++)
+        pts[i].n = 0;
+    solve_ctx ctx = {sp, pts, &m->ex, 0};
+    sweep_trace_opts opts = {1, solve_each, &ctx};
+    sweep_fold *folds = NULL;
+    int nfolds = 0;
+    m->status = sweep_trace(s, sp->x, xs, sp->nx, sp->target, &opts, tp,
+                            &folds, &nfolds, &m->first, NULL);
+    if (m->status == DK_ENOMEM)
+        m->status = dk_error_set(&m->err, DK_ENOMEM, "out of memory");
+    m->valued = ctx.valued;
+    if (!m->status)
+        m->status = add_solve_series(&m->part, sp, f < 0 ? 0 : f, xs, pts,
+                                     folds, nfolds, &m->ex, &m->err);
+    free(folds);
+}
+
+/* Spans of flagged values: the union (minima, maxima). */
+static void
+span_merge(dk_range_span *into, const dk_range_span *from)
+{
+    into->flags |= from->flags;
+    for (int k = 0; k < 3; k++) {
+        into->lam_min[k] = fmin(into->lam_min[k], from->lam_min[k]);
+        into->lam_max[k] = fmax(into->lam_max[k], from->lam_max[k]);
+    }
+    into->t_min = fmin(into->t_min, from->t_min);
+    into->t_max = fmax(into->t_max, from->t_max);
+}
+
+/*
+ * Solve curves through the tracer: the family members on all cores
+ * (each member on its own copy of the sweep; the result is the same
+ * whatever the number of threads), then their series in member order.
+ */
+static dk_status
+solve_curves(const dk_design *base, const dk_sweep_spec *sp,
+             const double *xs, dk_sweep_result *res, dk_range_span *ex,
+             long *valued, dk_error *first, dk_error *err)
+{
+    int nfam = sp->nfamily ? sp->nfamily : 1;
+    member *m = calloc((size_t)nfam, sizeof *m);
+    if (!m)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    int failed = 0;
+#pragma omp parallel if (nfam > 1) reduction(| : failed)
+    {
+        dk_sweep *s = malloc(sizeof *s);
+        point *pts = malloc((size_t)sp->nx * sizeof *pts);
+        trace_point *tp = malloc((size_t)sp->nx * sizeof *tp);
+        failed |= !s || !pts || !tp;
+#pragma omp for schedule(dynamic, 1)
+        for (int f = 0; f < nfam; f++)
+            if (s && pts && tp)
+                solve_member(base, sp, sp->nfamily ? f : -1, xs, s, pts, tp,
+                             &m[f]);
+        free(s), free(pts), free(tp);
+    }
+    dk_status st = failed ? dk_error_set(err, DK_ENOMEM, "out of memory")
+                          : DK_OK;
+    for (int f = 0; f < nfam; f++) {
+        if (!st && m[f].status)
+            st = m[f].status, *err = m[f].err;
+        if (!first->msg[0] && m[f].first.msg[0])
+            *first = m[f].first;
+        *valued += m[f].valued;
+        span_merge(ex, &m[f].ex);
+        /* Move the member's series into the result, in order. */
+        dk_sweep_result *part = &m[f].part;
+        if (!st && part->nseries) {
+            dk_series *grown =
+                realloc(res->series, (size_t)(res->nseries + part->nseries) *
+                                         sizeof *grown);
+            if (!grown) {
+                st = dk_error_set(err, DK_ENOMEM, "out of memory");
+            } else {
+                res->series = grown;
+                memcpy(res->series + res->nseries, part->series,
+                       part->nseries * sizeof *grown);
+                res->nseries += part->nseries;
+                res->flags |= part->flags;
+                free(part->series);
+                part->series = NULL;
+                part->nseries = 0;
+            }
+        }
+        dk_sweep_result_free(part);
+    }
+    free(m);
+    return st;
+}
+
+/*
+ * sinc² curves by the batch engine (sweep_batch.c): the family members
+ * are the rows of a map over x (without a family, one row at the
+ * design's own temperature, which leaves the state as it is). Returns
+ * DK_OK with *done = 0 when the design does not allow it.
+ */
+static dk_status
+sinc2_curves(const dk_design *base, const dk_sweep_spec *sp,
+             const double *xs, dk_sweep_result *res, dk_range_span *ex,
+             long *valued, dk_error *first, int *done, dk_error *err)
+{
+    dk_var yv = sp->nfamily ? sp->family : DK_VAR_TEMP;
+    *done = 0;
+    if (!sweep_batch_allows(base, sp->x, yv))
+        return DK_OK;
+    int ny = sp->nfamily ? sp->nfamily : 1;
+    double yvals[DK_SWEEP_MAX_FAMILY];
+    for (int f = 0; f < ny; f++)
+        yvals[f] = sp->nfamily ? sp->family_values[f] : base->temp_c;
+    size_t cells = (size_t)sp->nx * ny;
+    dk_map_result m = {0};
+    m.nx = sp->nx, m.ny = ny;
+    m.x = (double *)xs, m.y = yvals;
+    m.z = malloc(cells * sizeof *m.z);
+    m.cell = malloc(cells);
+    unsigned char *flags = malloc(cells);
+    dk_map_spec ms = {sp->x, yv, sp->x_lo, sp->x_hi, 0, 0, sp->nx, ny};
+    size_t def;
+    dk_status st = !m.z || !m.cell || !flags
+                       ? DK_ENOMEM
+                       : sweep_cells_batch(base, &ms, &m, flags, &def);
+    dk_sweep *scratch = NULL;
+    for (int f = 0; !st && f < ny; f++) {
+        dk_series *s = new_series(res, (size_t)sp->nx);
+        if (!s) {
+            st = DK_ENOMEM;
+            break;
+        }
+        s->family = sp->nfamily ? f : -1;
+        s->branch = 0;
+        if (sp->nfamily)
+            family_label(sp->family, sp->family_values[f], s->label,
+                         sizeof s->label);
+        long member_valued = 0;
+        for (int i = 0; i < sp->nx; i++) {
+            size_t c = (size_t)f * sp->nx + i;
+            s->x[i] = xs[i];
+            s->y[i] = m.z[c];
+            s->flags[i] = isnan(m.z[c]) ? 0 : flags[c];
+            res->flags |= s->flags[i];
+            member_valued += !isnan(m.z[c]);
+            dk_waves w;
+            double t;
+            if (s->flags[i] &&
+                sweep_cell_state(base, yv, yvals[f], sp->x, xs[i], &w, &t))
+                dk_range_span_add(ex, s->flags[i], &w, t);
+            /* The first point without a value that dk_sweep_set()
+             * refuses gives the message, as the point-by-point loop. */
+            if (isnan(m.z[c]) && !first->msg[0] &&
+                (scratch || (scratch = malloc(sizeof *scratch)))) {
+                dk_sweep_init(scratch, base);
+                if (!sp->nfamily ||
+                    !dk_sweep_set(scratch, yv, yvals[f], first))
+                    dk_sweep_set(scratch, sp->x, xs[i], first);
+            }
+        }
+        *valued += member_valued;
+    }
+    free(scratch);
+    free(m.z), free(m.cell), free(flags);
+    if (st == DK_ENOMEM)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    *done = 1;
+    return DK_OK;
+}
+
 dk_status
 dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
                 dk_sweep_result *res, dk_error *err)
@@ -329,6 +650,16 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
     dk_error first = {0};
     long valued = 0;
     int nfam = sp->nfamily ? sp->nfamily : 1;
+    if (sp->quantity == DK_SWEEP_SOLVE) {
+        st = solve_curves(base, sp, xs, res, &ex, &valued, &first, err);
+        nfam = 0;
+    } else if (sp->quantity == DK_SWEEP_SINC2) {
+        int done = 0;
+        st = sinc2_curves(base, sp, xs, res, &ex, &valued, &first, &done,
+                          err);
+        if (done)
+            nfam = 0;
+    }
     for (int f = 0; f < nfam && !st; f++) {
         dk_sweep_init(s, base);
         if (sp->nfamily &&

@@ -3,6 +3,12 @@
  * variables, and the Δk = 0 line from the root finder (see
  * deltak/sweep.h). The line comes from solving for y at each x, not from
  * contouring the grid, so narrow ridges are drawn at their true place.
+ *
+ * The cells come from the batch engine (sweep_batch.c) when the design
+ * allows it, else cell by cell through dk_sweep_set() and
+ * dk_sweep_sinc2(); the Δk = 0 line comes from the tracer
+ * (sweep_trace.c), which finds the roots dk_sweep_solve() finds at each x
+ * by continuation.
  */
 #include <math.h>
 #include <stdio.h>
@@ -10,6 +16,7 @@
 #include <string.h>
 
 #include "deltak/sweep.h"
+#include "sweep_internal.h"
 
 void
 dk_map_result_free(dk_map_result *res)
@@ -49,7 +56,7 @@ check_spec(const dk_design *base, const dk_map_spec *sp, dk_error *err)
                             "a map of %d x %d cells exceeds the limit of %d "
                             "cells (about %d MB); use fewer points",
                             sp->nx, sp->ny, DK_MAP_MAX_CELLS,
-                            (int)((double)DK_MAP_MAX_CELLS * 9 / 1e6 + 0.5));
+                            (int)((double)DK_MAP_MAX_CELLS * 10 / 1e6 + 0.5));
     if (!isfinite(sp->x_lo) || !isfinite(sp->x_hi) || sp->x_lo == sp->x_hi ||
         !isfinite(sp->y_lo) || !isfinite(sp->y_hi) || sp->y_lo == sp->y_hi)
         return dk_error_set(err, DK_EINVAL,
@@ -114,12 +121,18 @@ ridge(const dk_design *base, const dk_map_spec *sp, dk_sweep *s,
     }
     int maxk = 0;
     dk_sweep_init(s, base);
+    trace_point *tp = malloc((size_t)sp->nx * sizeof *tp);
+    if (!tp || sweep_trace(s, sp->x, res->x, sp->nx, sp->y, NULL, tp, NULL,
+                           NULL, NULL, NULL)) {
+        free(tp), free(v), free(nv);
+        return DK_ENOMEM;
+    }
     for (int i = 0; i < sp->nx; i++) {
-        if (dk_sweep_set(s, sp->x, res->x[i], NULL) ||
-            dk_sweep_solve(s, sp->y, v + (size_t)i * RR, RR, &nv[i], NULL))
-            nv[i] = 0;
+        nv[i] = tp[i].status ? 0 : tp[i].n;
+        memcpy(v + (size_t)i * RR, tp[i].v, nv[i] * sizeof *v);
         maxk = nv[i] > maxk ? nv[i] : maxk;
     }
+    free(tp);
     size_t m = 0;
     double lo = fmin(sp->y_lo, sp->y_hi), hi = fmax(sp->y_lo, sp->y_hi);
     for (int k = 0; k < maxk; k++) {
@@ -164,8 +177,14 @@ dk_sweep_map(const dk_design *base, const dk_map_spec *sp,
     for (int j = 0; j < sp->ny; j++)
         res->y[j] = sp->y_lo + (sp->y_hi - sp->y_lo) * j / (sp->ny - 1);
     size_t defined = 0;
+    int batched = 0;
+    if (sweep_map_batch(base, sp, res, &batched, &defined)) {
+        free(s);
+        dk_map_result_free(res);
+        return dk_error_set(err, DK_ENOMEM, "out of memory for the map");
+    }
     dk_sweep_init(s, base);
-    for (int j = 0; j < sp->ny; j++)
+    for (int j = 0; j < sp->ny && !batched; j++)
         for (int i = 0; i < sp->nx; i++) {
             size_t c = (size_t)j * sp->nx + i;
             double z = NAN;

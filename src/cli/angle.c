@@ -289,7 +289,7 @@ cmd_angle(int argc, char **argv)
                                             "and --broadband");
 
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, cm.crystal))
         return CLI_FAIL;
     rc = CLI_FAIL;
     dk_design *d = malloc(sizeof *d);

@@ -105,7 +105,7 @@ cmd_chip(int argc, char **argv)
     const char *target = signal ? "signal" : "idler";
 
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, cm.crystal))
         return CLI_FAIL;
     rc = CLI_FAIL;
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);

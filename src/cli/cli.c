@@ -217,8 +217,19 @@ warn_db(const dk_db *db, int errors_from, int notices_from)
         cli_warn("%s", db->notices[i]);
 }
 
+/* Whether --crystal names a file rather than a crystal: ids and aliases
+ * never contain '/' or end in .yaml. */
+static int
+names_a_file(const char *name)
+{
+    size_t n = strlen(name);
+    return strchr(name, '/') ||
+           (n > 5 && strcasecmp(name + n - 5, ".yaml") == 0) ||
+           (n > 4 && strcasecmp(name + n - 4, ".yml") == 0);
+}
+
 int
-cli_load_db(dk_db **db)
+cli_load_db(dk_db **db, const char *name)
 {
     /* The search path: $DELTAK_CRYSTALS (colon-separated folders and
      * files, first wins), then the shipped database. */
@@ -240,24 +251,18 @@ cli_load_db(dk_db **db)
         paths[k++] = t;
     paths[k++] = dk_db_shipped_dir();
     dk_error err = {0};
-    dk_status st = dk_db_load_path(paths, k, db, &err);
+    /* The shipped database alone: only the crystal asked for is read
+     * when its file can be told from the others (dk_db_load_for); with
+     * folders of the user's, every file (they may replace shipped ones). */
+    dk_status st = k == 1 && name && !names_a_file(name)
+                       ? dk_db_load_for(paths[0], name, db, &err)
+                       : dk_db_load_path(paths, k, db, &err);
     free(paths);
     free(copy);
     if (st)
         return cli_error("%s", err.msg);
     warn_db(*db, 0, 0);
     return 0;
-}
-
-/* Whether --crystal names a file rather than a crystal: ids and aliases
- * never contain '/' or end in .yaml. */
-static int
-names_a_file(const char *name)
-{
-    size_t n = strlen(name);
-    return strchr(name, '/') ||
-           (n > 5 && strcasecmp(name + n - 5, ".yaml") == 0) ||
-           (n > 4 && strcasecmp(name + n - 4, ".yml") == 0);
 }
 
 /* Edit distance ignoring ASCII case (99 beyond 64 characters). */

@@ -130,11 +130,13 @@ void cli_warn_index(const dk_dispersion_set *set, unsigned flags,
 /*
  * Load the crystal database: the folders and files of $DELTAK_CRYSTALS
  * (colon-separated, the first wins), then the shipped folder
- * (dk_db_shipped_dir). Skipped files and names that a user's file takes
- * from another become warnings. Returns 0, or CLI_FAIL after printing
- * the error.
+ * (dk_db_shipped_dir). With the shipped folder alone and a crystal @name,
+ * only that crystal's file is read when the files show which one it is
+ * (dk_db_load_for); @name NULL loads every file. Skipped files and names
+ * that a user's file takes from another become warnings. Returns 0, or
+ * CLI_FAIL after printing the error.
  */
-int cli_load_db(dk_db **db);
+int cli_load_db(dk_db **db, const char *name);
 
 /*
  * Find @name (an id or alias, or a path to a crystal file: containing

@@ -383,7 +383,7 @@ cmd_crystals(int argc, char **argv)
         return cli_usage_error(crystals_usage, "choose one of --json and "
                                                "--names");
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, NULL))
         return CLI_FAIL;
     const char *name = npos ? pos[0] : NULL;
     const dk_crystal *c = NULL;

@@ -182,7 +182,7 @@ cli_design_open(const cli_common *cm, const cli_design_args *a,
 {
     *db = NULL;
     *d = NULL;
-    if (cli_load_db(db))
+    if (cli_load_db(db, cm->crystal))
         return CLI_FAIL;
     int rc = CLI_FAIL;
     dk_design_request rq;

@@ -180,7 +180,7 @@ cmd_index(int argc, char **argv)
         return cli_usage_error(index_usage, "%s", err.msg);
 
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, cm.crystal))
         return CLI_FAIL;
     rc = CLI_FAIL;
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);

@@ -305,7 +305,7 @@ cmd_period(int argc, char **argv)
     }
 
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, cm.crystal))
         return CLI_FAIL;
     rc = CLI_FAIL;
     dk_design *d = NULL;

@@ -531,7 +531,7 @@ cmd_sweep(int argc, char **argv)
                            mp.y == DK_VAR_ALPHA));
 
     dk_db *db = NULL;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, cm.crystal))
         return CLI_FAIL;
     rc = CLI_FAIL;
     dk_plot *fig = NULL;

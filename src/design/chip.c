@@ -149,14 +149,5 @@ dk_chip_gratings(dk_qpm *q, double pump_um, int signal, double lo_um,
         double next = best.hi_um - overlap * (best.hi_um - best.lo_um);
         start = fmax(next, start + MIN_PROGRESS);
     }
-    /* Range warnings belong to the layout, not to the searches. */
-    q->warnings = 0;
-    for (int i = 0; i < *n; i++) {
-        double dk;
-        dk_waves a = waves_for(pump_um, signal, out[i].lo_um);
-        dk_waves b = waves_for(pump_um, signal, out[i].hi_um);
-        dk_qpm_material_dk(q, &a, out[i].t_lo_c, &dk, NULL);
-        dk_qpm_material_dk(q, &b, out[i].t_hi_c, &dk, NULL);
-    }
     return DK_OK;
 }

@@ -7,6 +7,9 @@
  * refinement (deltak/roots.h) so that both branches of a turning tuning
  * curve are reported. The wavelength scan runs over the signal's share of
  * the pump frequency, x = ν_s/ν_p in (0, 1), where Δk is smooth.
+ * Hot paths evaluate the three indices value-only with the formula
+ * compiled once per temperature (qpm_fast.h, dispersion_batch.h) and keep
+ * no range bookkeeping: flags are the design layer's.
  */
 #include <math.h>
 #include <string.h>
@@ -14,11 +17,12 @@
 #include "deltak/material.h"
 #include "deltak/qpm.h"
 #include "deltak/roots.h"
+#include "qpm_fast.h"
 
-#define TEMP_SCAN 400      /* grid intervals over the oven range */
-#define FREQ_SCAN 2000     /* grid intervals over the signal share */
-#define TEMP_TOL_C 1e-7
-#define FREQ_TOL 1e-12
+#define TEMP_SCAN DK_QPM_TEMP_SCAN
+#define FREQ_SCAN DK_QPM_FREQ_SCAN
+#define TEMP_TOL_C DK_QPM_TEMP_TOL_C
+#define FREQ_TOL DK_QPM_FREQ_TOL
 
 /* The axis label a polarisation letter means in this crystal. */
 static int
@@ -101,35 +105,102 @@ dk_qpm_init(dk_qpm *q, const dk_crystal *c, const dk_dispersion_set *set,
     return DK_OK;
 }
 
-/* n of one wave, recording range warnings in @q. */
-static dk_status
-wave_n(dk_qpm *q, char axis, double lam, double t, double *n, dk_error *err)
-{
-    unsigned w;
-    dk_status s = dk_material_n(q->crystal, q->set, axis, lam, t, n, &w, err);
-    if (s)
-        return s;
-    if (w & ~q->warnings) {
-        if (w & DK_WARN_LAMBDA_RANGE)
-            q->warn_lambda_um = lam;
-        q->warn_temp_c = t;
-    }
-    q->warnings |= w;
-    return DK_OK;
-}
-
 dk_status
 dk_qpm_material_dk(dk_qpm *q, const dk_waves *w, double temp_c, double *dk,
                    dk_error *err)
 {
     double np, ns, ni;
     dk_status s;
-    if ((s = wave_n(q, q->pol[2], w->pump_um, temp_c, &np, err)) ||
-        (s = wave_n(q, q->pol[0], w->signal_um, temp_c, &ns, err)) ||
-        (s = wave_n(q, q->pol[1], w->idler_um, temp_c, &ni, err)))
+    const dk_crystal *c = q->crystal;
+    if ((s = dk_material_n(c, q->set, q->pol[2], w->pump_um, temp_c, &np,
+                           NULL, err)) ||
+        (s = dk_material_n(c, q->set, q->pol[0], w->signal_um, temp_c, &ns,
+                           NULL, err)) ||
+        (s = dk_material_n(c, q->set, q->pol[1], w->idler_um, temp_c, &ni,
+                           NULL, err)))
         return s;
     *dk = 2 * M_PI * (np / w->pump_um - ns / w->signal_um - ni / w->idler_um);
     return DK_OK;
+}
+
+dk_status
+dk_qpm_fast_init(const dk_qpm *q, double temp_c, double period_um,
+                 dk_qpm_fast *f)
+{
+    const double *tr = q->crystal->transparency_um;
+    f->temp_c = temp_c;
+    f->grating_k = period_um > 0 ? dk_qpm_grating_k(q, period_um, temp_c) : 0;
+    int nax = 0;
+    for (int k = 0; k < 3; k++) {
+        int same = -1;
+        for (int j = 0; j < k; j++)
+            if (q->pol[j] == q->pol[k])
+                same = j;
+        if (same >= 0) {   /* one axis for waves alike: compiled once */
+            f->axi[k] = f->axi[same];
+            continue;
+        }
+        const dk_axis_formula *ax = dk_set_find_axis(q->set, q->pol[k]);
+        if (!ax)
+            return DK_ENOTFOUND;
+        dk_status s = dk_nfast_compile(q->set, ax, temp_c, tr[0], tr[1],
+                                       &f->ax[nax]);
+        if (s)
+            return s;
+        f->axi[k] = nax++;
+    }
+    return DK_OK;
+}
+
+double
+dk_qpm_fast_material(const dk_qpm_fast *f, const dk_waves *w)
+{
+    double np = dk_nfast_n(dk_qpm_fast_axis(f, 2), w->pump_um);
+    double ns = dk_nfast_n(dk_qpm_fast_axis(f, 0), w->signal_um);
+    double ni = dk_nfast_n(dk_qpm_fast_axis(f, 1), w->idler_um);
+    return 2 * M_PI * (np / w->pump_um - ns / w->signal_um - ni / w->idler_um);
+}
+
+double
+dk_qpm_fast_dk(const dk_qpm_fast *f, const dk_waves *w)
+{
+    double dk = dk_qpm_fast_material(f, w);
+    return isfinite(dk) ? fabs(dk) - f->grating_k : NAN;
+}
+
+double
+dk_qpm_fast_dk_share_np(const dk_qpm_fast *f, double pump_um, double np,
+                        double x, double *d_dx)
+{
+    dk_waves w = dk_waves_of_share(pump_um, x);
+    double ds = 0, di = 0;
+    double ns = dk_nfast_n_d(dk_qpm_fast_axis(f, 0), w.signal_um,
+                             d_dx ? &ds : NULL);
+    double ni = dk_nfast_n_d(dk_qpm_fast_axis(f, 1), w.idler_um,
+                             d_dx ? &di : NULL);
+    double dk = 2 * M_PI * (np / w.pump_um - ns / w.signal_um -
+                            ni / w.idler_um);
+    if (!isfinite(dk)) {
+        if (d_dx)
+            *d_dx = NAN;
+        return NAN;
+    }
+    if (d_dx) {
+        double ngs = ns - w.signal_um * ds, ngi = ni - w.idler_um * di;
+        double slope = 2 * M_PI * (ngi - ngs) / pump_um;
+        *d_dx = dk < 0 ? -slope : slope;
+    }
+    return fabs(dk) - f->grating_k;
+}
+
+double
+dk_qpm_fast_dk_share(const dk_qpm_fast *f, double pump_um, double x,
+                     double *d_dx)
+{
+    return dk_qpm_fast_dk_share_np(f, pump_um,
+                                   dk_nfast_n(dk_qpm_fast_axis(f, 2),
+                                              pump_um),
+                                   x, d_dx);
 }
 
 /* Λ(T) / Λ_w from thermal expansion along the grating axis. */
@@ -172,6 +243,9 @@ dk_qpm_grating_k(const dk_qpm *q, double period_um, double temp_c)
 double
 dk_qpm_delta_k(dk_qpm *q, const dk_waves *w, double temp_c, double period_um)
 {
+    dk_qpm_fast f;
+    if (dk_qpm_fast_init(q, temp_c, period_um, &f) == DK_OK)
+        return dk_qpm_fast_dk(&f, w);
     double dk;
     if (dk_qpm_material_dk(q, w, temp_c, &dk, NULL))
         return NAN;
@@ -199,25 +273,23 @@ dk_qpm_solve_temperature(dk_qpm *q, const dk_waves *w, double period_um,
     if (!(period_um > 0))
         return dk_error_set(err, DK_EINVAL, "period must be positive");
     temp_probe tp = {q, w, period_um};
-    dk_status s = dk_roots_all(dk_of_temp, &tp, lo_c, hi_c, TEMP_SCAN,
-                               TEMP_TOL_C, temps, max, n, err);
-    /* Range warnings belong to the answers, not to the scan. */
-    q->warnings = 0;
-    double dk;
-    for (int i = 0; !s && i < *n; i++)
-        dk_qpm_material_dk(q, w, temps[i], &dk, NULL);
-    return s;
+    return dk_roots_all(dk_of_temp, &tp, lo_c, hi_c, TEMP_SCAN, TEMP_TOL_C,
+                        temps, max, n, err);
 }
 
 typedef struct freq_probe {
     dk_qpm *q;
     double pump, period, temp;
+    int fast;           /* 1: the axes are compiled in f */
+    dk_qpm_fast f;
 } freq_probe;
 
 static double
 dk_of_share(double x, void *p)
 {
     freq_probe *fp = p;
+    if (fp->fast)
+        return dk_qpm_fast_dk_share(&fp->f, fp->pump, x, NULL);
     dk_waves w = dk_waves_of_share(fp->pump, x);
     return dk_qpm_delta_k(fp->q, &w, fp->temp, fp->period);
 }
@@ -238,7 +310,9 @@ dk_qpm_solve_wavelengths(dk_qpm *q, double pump_um, double period_um,
                             "pump %.6g um is too long for %s to carry both "
                             "signal and idler",
                             pump_um, q->crystal->id);
-    freq_probe fp = {q, pump_um, period_um, temp_c};
+    freq_probe fp = {.q = q, .pump = pump_um, .period = period_um,
+                     .temp = temp_c};
+    fp.fast = dk_qpm_fast_init(q, temp_c, period_um, &fp.f) == DK_OK;
     double x[64];
     int nx;
     int same = q->pol[0] == q->pol[1];
@@ -258,11 +332,6 @@ dk_qpm_solve_wavelengths(dk_qpm *q, double pump_um, double period_um,
             continue;
         sol[(*n)++] = dk_waves_of_share(pump_um, x[i]);
     }
-    /* Range warnings belong to the answers, not to the scan. */
-    q->warnings = 0;
-    double dk;
-    for (int i = 0; i < *n; i++)
-        dk_qpm_material_dk(q, &sol[i], temp_c, &dk, NULL);
     return DK_OK;
 }
 

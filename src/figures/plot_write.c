@@ -45,6 +45,11 @@
 #include "plot_internal.h"
 
 #define VECTOR_RASTER_PPI 200.0   /* map image resolution in PDF/SVG */
+/* The largest PNG drawn: its pixels take 4 bytes each in cairo's image
+ * surface and the encoded file is built in memory beside them, so 64
+ * megapixels is about 260 MB (an 8000 x 8000 image; a 1 x 1 m figure at
+ * 300 dpi would be 139 megapixels and 560 MB). */
+#define PNG_MAX_PIXELS 64e6
 
 typedef enum { FMT_PDF, FMT_SVG, FMT_PNG } fmt;
 
@@ -276,6 +281,17 @@ render(const dk_plot *p, const plot_layout *L, fmt f, sink *s,
        const char *path, dk_error *err)
 {
     double scale = f == FMT_PNG ? p->dpi / 72 : VECTOR_RASTER_PPI / 72;
+    if (f == FMT_PNG) {
+        double w = lround(L->page_w * scale), h = lround(L->page_h * scale);
+        if (w * h > PNG_MAX_PIXELS)
+            return dk_error_set(err, DK_EINVAL,
+                                "cannot draw '%s': %.0f x %.0f pixels at "
+                                "%.0f dpi exceed the PNG budget of %.0f "
+                                "megapixels (about %.0f MB); give a smaller "
+                                "figure size, or write PDF or SVG",
+                                path, w, h, p->dpi, PNG_MAX_PIXELS / 1e6,
+                                PNG_MAX_PIXELS * 4 / 1e6);
+    }
     membuf mem = {0};
     cairo_surface_t *surf = make_surface(f, L, scale, s, &mem);
     cairo_status_t cs = cairo_surface_status(surf);

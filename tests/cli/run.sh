@@ -348,7 +348,8 @@ printf 'simulate --crystal BBO --fundamental 800nm --type I --length 1mm --funda
 expect run-spectrum-escape 1 'leaves the design file' -- run "$tmp/spec.dk" --check
 # A killed run leaves no step running and no temporary file behind.
 mkdir -p "$tmp/slow"
-printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --plot slow.svg\n' > "$tmp/slow/s.dk"
+# (twelve family members: seconds of work even for the fast engine)
+printf 'sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=30:200:100000 --solve accept-temp --length 10mm --family length=5mm,6mm,7mm,8mm,9mm,10mm,11mm,12mm,13mm,14mm,15mm,16mm --plot slow.svg\n' > "$tmp/slow/s.dk"
 "$DK" run "$tmp/slow/s.dk" >/dev/null 2>&1 &
 runpid=$!
 sleep 1
