@@ -38,7 +38,7 @@ FPFLAGS  := -fno-math-errno -fno-trapping-math
 ALL_CFLAGS = -std=c17 -D_DEFAULT_SOURCE $(WARN) $(CFLAGS) $(OPENMP) $(FPFLAGS) -Iinclude -Isrc \
              $(PKG_CFLAGS) -DDK_VERSION='"$(VERSION)"' \
              -DDK_CRYSTAL_DIR='"$(abspath crystals)"' -MMD -MP
-LDLIBS_ALL = $(PKG_LIBS) -lm
+LDLIBS_ALL = $(PKG_LIBS) $(OPENMP) -lm
 
 # The commands are part of the library too (deltak/command.h); only
 # main.c is the program's own.

@@ -107,7 +107,7 @@ rank_candidates(const cli_common *cm, const cli_design_args *da,
                 int json, const char *const usage[])
 {
     dk_db *db;
-    if (cli_load_db(&db))
+    if (cli_load_db(&db, NULL))
         return CLI_FAIL;
     enum { MAXC = 24 };
     candidate cand[MAXC];

@@ -9,7 +9,7 @@ Starts the program (`deltak explore --port 0`), then checks:
     answers with the command's own message, and the server lives on;
   - concurrent requests all get their own right answer;
   - a request past the deadline gets 503 (a second server with
-    --deadline 0.01 and a sweep of 2000 solves);
+    --deadline 0.01 and a 400 x 400 map computed cell by cell);
   - Ctrl-C (SIGINT) stops the server cleanly (exit 0).
 Loopback only; every loop is bounded. Prints "explore: N passed, M failed".
 Usage: api.py build/deltak
@@ -321,12 +321,14 @@ def run_checks(port):
 
 
 def late_deadline():
-    """--deadline 0.01 and a sweep of 2000 solves: 503, then still alive."""
+    """--deadline 0.01 and a 400 x 400 map of a birefringent design whose
+    angle varies (computed cell by cell: about 0.3 s here, thirty times the
+    deadline): 503, then still alive."""
     p, port = start("--deadline", "0.01", "--workers", "1")
     try:
-        st, h, body = get(port, "/api/sweep?crystal=MgO:LN&pump=1064nm&"
-                          "period=30.5um&vary=temp=20:200:2000&"
-                          "solve=wavelengths")
+        st, h, body = get(port, "/figure/sweep.svg?crystal=BBO&fundamental=1064nm&"
+                          "type=I&length=2mm&vary=theta=20:26:400&"
+                          "map=fundamental=1.0um:1.1um:400")
         check("deadline-503", st == 503 and h.get("Retry-After") == "1" and
               b"no answer within" in body, "%d %s" % (st, body[:200]))
         st, h, body = get(port, "/")
