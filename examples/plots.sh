@@ -39,4 +39,9 @@ fig bbo-opa-simulated-spectra simulate --crystal BBO --pump 800nm \
     --signal-in energy=5nJ,width=40nm --beam-radius 1.5mm
 fig bbo-opa-simulated-energy simulate --crystal BBO --pump 800nm \
     --signal 1300nm --type I --length 2mm --pump-in energy=200uJ,fwhm=120fs \
-    --signal-in energy=5nJ,width=40nm --beam-radius 1.5mm --figure energy
+    --signal-in energy=5nJ,width=40nm --beam-radius 1.5mm --figure energy --log y
+# A noncollinear BBO amplifier pumped at 400 nm: signal against the pump's
+# angle for three internal angles; at 3.8 deg the curve stands vertical
+# (the broadband, group-velocity-matched geometry).
+fig bbo-nopa-signal-vs-angle sweep --crystal BBO --pump 400nm --pol ooe \
+    --vary theta=29:34:401 --solve signal --family alpha=0,2,3.8 --yrange 0.45:1.0

@@ -336,6 +336,18 @@ transparency_regions(dk_plot *fig, dk_plot_axis axis, const dk_crystal *c,
     return ps;
 }
 
+/* Series that belong on one line of a figure: the root branches of one
+ * family member (the same wave, or the same GVM pair), joined with NaN
+ * breaks under one legend entry, so that a member keeps one colour, dash
+ * and marker however many branches its curve has. */
+static int
+same_line(const dk_sweep_spec *sp, const dk_series *a, const dk_series *b)
+{
+    if (a->family != b->family || a->wave != b->wave)
+        return 0;
+    return sp->quantity == DK_SWEEP_SOLVE || a->branch == b->branch;
+}
+
 static dk_status
 plot_curves(dk_plot *fig, const dk_design *d, const dk_sweep_spec *sp,
             const cli_plot_args *pa, const dk_sweep_result *res,
@@ -345,22 +357,45 @@ plot_curves(dk_plot *fig, const dk_design *d, const dk_sweep_spec *sp,
                                       quantity_markup(sp->quantity,
                                                       sp->target),
                                       err);
-    for (int s = 0; !ps && s < res->nseries; s++) {
-        const dk_series *a = &res->series[s];
-        int any = 0;
-        for (size_t i = 0; i < a->n && !any; i++)
-            any = isfinite(a->y[i]);
-        if (!any)
-            continue;
-        unsigned char *fl = malloc(a->n);
-        if (!fl)
-            return dk_error_set(err, DK_ENOMEM, "out of memory");
-        for (size_t i = 0; i < a->n; i++)
-            fl[i] = a->flags[i] ? DK_PLOT_FLAG_OUTSIDE_FIT : 0;
-        ps = dk_plot_add_line_flagged(fig, a->x, a->y, fl, a->n,
-                                      a->label[0] ? a->label : NULL, err);
-        free(fl);
+    size_t total = 0;
+    for (int s = 0; s < res->nseries; s++)
+        total += res->series[s].n + 1;
+    double *x = malloc(total * sizeof *x), *y = malloc(total * sizeof *y);
+    unsigned char *fl = malloc(total);
+    char *done = calloc((size_t)res->nseries + 1, 1);
+    if (!x || !y || !fl || !done) {
+        free(x), free(y), free(fl), free(done);
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
     }
+    for (int s = 0; !ps && s < res->nseries; s++) {
+        if (done[s])
+            continue;
+        const dk_series *a = &res->series[s];
+        size_t m = 0;
+        int any = 0;
+        for (int t = s; t < res->nseries; t++) {
+            const dk_series *b = &res->series[t];
+            if (done[t] || !same_line(sp, a, b))
+                continue;
+            done[t] = 1;
+            for (size_t i = 0; i < b->n; i++) {
+                x[m] = b->x[i], y[m] = b->y[i];
+                fl[m++] = b->flags[i] ? DK_PLOT_FLAG_OUTSIDE_FIT : 0;
+                any |= isfinite(b->y[i]);
+            }
+            x[m] = NAN, y[m] = NAN, fl[m++] = 0;
+        }
+        /* The label without the branch number of a root branch. */
+        char label[96];
+        snprintf(label, sizeof label, "%s", a->label);
+        char *cut = strstr(label, " (1st pair)");
+        if (cut)
+            *cut = '\0';
+        if (any)
+            ps = dk_plot_add_line_flagged(fig, x, y, fl, m,
+                                          label[0] ? label : NULL, err);
+    }
+    free(x), free(y), free(fl), free(done);
     if (!ps && sp->quantity == DK_SWEEP_SINC2 && !isfinite(pa->yrange[0]))
         ps = dk_plot_set_yrange(fig, 0, 1.05, err);
     if (!ps && sp->quantity == DK_SWEEP_SOLVE &&
@@ -578,7 +613,11 @@ cmd_sweep(int argc, char **argv)
         if (!ps)
             ps = map ? plot_map(fig, &mp, &mres, &err)
                      : plot_curves(fig, d, &sp, &pa, &res, &err);
-        if (!ps && dk_var_is_wavelength(sp.x))
+        /* Only a range that reaches the transparency edge shows the
+         * region (one out of view would still take a legend entry). */
+        const double *tr = d->crystal->transparency_um;
+        if (!ps && dk_var_is_wavelength(sp.x) &&
+            (fmin(sp.x_lo, sp.x_hi) < tr[0] || fmax(sp.x_lo, sp.x_hi) > tr[1]))
             ps = transparency_regions(fig, DK_PLOT_X_AXIS, d->crystal, &err);
         if (!ps)
             ps = cli_plot_write(&pa, fig, out.f, &err);
