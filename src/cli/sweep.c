@@ -343,9 +343,26 @@ transparency_regions(dk_plot *fig, dk_plot_axis axis, const dk_crystal *c,
 static int
 same_line(const dk_sweep_spec *sp, const dk_series *a, const dk_series *b)
 {
-    if (a->family != b->family || a->wave != b->wave)
+    if (a->family != b->family)
         return 0;
-    return sp->quantity == DK_SWEEP_SOLVE || a->branch == b->branch;
+    /* Signal and idler of one member are the two halves of one curve
+     * that meet at degeneracy: one line, with the halves labelled. */
+    if (sp->quantity == DK_SWEEP_SOLVE)
+        return 1;
+    return a->wave == b->wave && a->branch == b->branch;
+}
+
+/* Pieces (runs of finite points) of @y[0..n). */
+static int
+pieces(const double *y, size_t n)
+{
+    int k = 0, in = 0;
+    for (size_t i = 0; i < n; i++) {
+        if (isfinite(y[i]) && !in)
+            k++;
+        in = isfinite(y[i]);
+    }
+    return k;
 }
 
 static dk_status
@@ -372,28 +389,46 @@ plot_curves(dk_plot *fig, const dk_design *d, const dk_sweep_spec *sp,
             continue;
         const dk_series *a = &res->series[s];
         size_t m = 0;
-        int any = 0;
-        for (int t = s; t < res->nseries; t++) {
-            const dk_series *b = &res->series[t];
-            if (done[t] || !same_line(sp, a, b))
-                continue;
-            done[t] = 1;
-            for (size_t i = 0; i < b->n; i++) {
-                x[m] = b->x[i], y[m] = b->y[i];
-                fl[m++] = b->flags[i] ? DK_PLOT_FLAG_OUTSIDE_FIT : 0;
-                any |= isfinite(b->y[i]);
+        int any = 0, signal_pieces = -1;
+        /* Signal series first, then idler (then anything else). */
+        for (int pass = 0; pass < 2; pass++)
+            for (int t = s; t < res->nseries; t++) {
+                const dk_series *b = &res->series[t];
+                if (done[t] || !same_line(sp, a, b) ||
+                    (pass == 0 && b->wave == 1))
+                    continue;
+                if (pass == 1 && signal_pieces < 0)
+                    signal_pieces = pieces(y, m);
+                done[t] = 1;
+                for (size_t i = 0; i < b->n; i++) {
+                    x[m] = b->x[i], y[m] = b->y[i];
+                    fl[m++] = b->flags[i] ? DK_PLOT_FLAG_OUTSIDE_FIT : 0;
+                    any |= isfinite(b->y[i]);
+                }
+                x[m] = NAN, y[m] = NAN, fl[m++] = 0;
             }
-            x[m] = NAN, y[m] = NAN, fl[m++] = 0;
-        }
-        /* The label without the branch number of a root branch. */
+        /* The label of the member, without wave or pair. */
         char label[96];
         snprintf(label, sizeof label, "%s", a->label);
-        char *cut = strstr(label, " (1st pair)");
-        if (cut)
-            *cut = '\0';
-        if (any)
-            ps = dk_plot_add_line_flagged(fig, x, y, fl, m,
-                                          label[0] ? label : NULL, err);
+        const char *const tails[] = {", signal", ", idler", " (1st pair)",
+                                     "signal", "idler"};
+        for (size_t k = 0; k < sizeof tails / sizeof tails[0]; k++) {
+            char *cut = strstr(label, tails[k]);
+            if (cut)
+                *cut = '\0';
+        }
+        if (!any)
+            continue;
+        ps = dk_plot_add_line_flagged(fig, x, y, fl, m,
+                                      label[0] ? label : NULL, err);
+        /* Say which half is which, once: on the first member's line. */
+        if (!ps && a->wave == 0 && (a->family <= 0) && signal_pieces > 0) {
+            size_t line = dk_plot_series_count(fig) - 1;
+            ps = dk_plot_label_branch(fig, line, 0, "signal", err);
+            if (!ps)
+                ps = dk_plot_label_branch(fig, line, signal_pieces, "idler",
+                                          err);
+        }
     }
     free(x), free(y), free(fl), free(done);
     if (!ps && sp->quantity == DK_SWEEP_SINC2 && !isfinite(pa->yrange[0]))
