@@ -21,6 +21,9 @@
 /* f(x) for root finding; return NAN where undefined. */
 typedef double (*dk_scalar_fn)(double x, void *params);
 
+/* The largest scan grid dk_roots_all() takes. */
+#define DK_ROOTS_MAX_SCAN 1000000
+
 /*
  * dk_roots_all:
  * @f, @params: the function

@@ -4,8 +4,10 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_roots.h>
 #include <math.h>
+#include <stdlib.h>
 
 #include "core/gsl_guard.h"
+#include "roots_sampled.h"
 
 #include "deltak/roots.h"
 
@@ -72,32 +74,25 @@ dk_roots_all(dk_scalar_fn f, void *params, double lo, double hi, int nscan,
 {
     *nroots = 0;
     if (!(lo < hi) || !isfinite(lo) || !isfinite(hi) || nscan < 1 ||
-        !(xtol > 0))
+        nscan > DK_ROOTS_MAX_SCAN || !(xtol > 0))
         return dk_error_set(err, DK_EINVAL,
-                            "bad search interval [%g, %g] or tolerance", lo,
-                            hi);
-    double x0 = lo, f0 = f(lo, params);
-    for (int i = 1; i <= nscan && *nroots < maxroots; i++) {
-        double x1 = lo + (hi - lo) * i / nscan, f1 = f(x1, params);
-        if (isfinite(f0) && isfinite(f1)) {
-            if (f0 == 0) {
-                if (*nroots == 0 || roots[*nroots - 1] != x0)
-                    roots[(*nroots)++] = x0;
-            } else if (f0 * f1 < 0) {
-                double r;
-                dk_status s = dk_root_bracketed(f, params, x0, x1, xtol, &r,
-                                                err);
-                if (s)
-                    return s;
-                roots[(*nroots)++] = r;
-            }
-            if (i == nscan && f1 == 0 && *nroots < maxroots)
-                roots[(*nroots)++] = x1;
-        }
-        x0 = x1;
-        f0 = f1;
-    }
-    return DK_OK;
+                            "bad search interval [%g, %g], grid of %d or "
+                            "tolerance",
+                            lo, hi, nscan);
+    /* Sample the grid, then bracket: one loop for every caller
+     * (roots_sampled.c), whether it samples here or in a batch. */
+    double stack[1025], *v = nscan < 1025 ? stack
+                                          : malloc(((size_t)nscan + 1) *
+                                                   sizeof *v);
+    if (!v)
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    for (int i = 0; i <= nscan; i++)
+        v[i] = f(dk_scan_node(lo, hi, nscan, i), params);
+    dk_status s = dk_roots_sampled(f, params, lo, hi, nscan, v, xtol, roots,
+                                   maxroots, nroots, err);
+    if (v != stack)
+        free(v);
+    return s;
 }
 
 /* The entry point: GSL's aborting handler off for the call. */
