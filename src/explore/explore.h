@@ -122,6 +122,14 @@ int explore_pool_run(explore_pool *pool, int argc, char *const *argv,
  * does nothing. */
 void explore_pool_close(explore_pool *pool);
 
+/*
+ * explore_pool_hold:
+ * While @hold is non-zero workers take no new call (calls in hand
+ * finish); queued calls wait, and meet their deadline in the queue.
+ * Lets a test keep a call queued without relying on timing.
+ */
+void explore_pool_hold(explore_pool *pool, int hold);
+
 /* Close, wait up to 2 s for the workers to finish the calls in hand,
  * join them and free the pool. A worker still busy then (a long call
  * nobody waits for) cannot be stopped safely: it is detached and the

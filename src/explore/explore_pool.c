@@ -45,6 +45,7 @@ struct explore_pool {
     call **queue;              /* ring of @cap */
     int cap, head, count;
     int closing;
+    int held;                  /* workers take no new call */
     int nthreads, ended;
     pthread_t *threads;
 };
@@ -90,7 +91,7 @@ worker(void *arg)
     explore_pool *p = arg;
     pthread_mutex_lock(&p->lock);
     for (;;) {
-        while (!p->count && !p->closing)
+        while ((!p->count || p->held) && !p->closing)
             pthread_cond_wait(&p->work, &p->lock);
         if (p->closing)
             break;   /* queued calls are taken back by their requesters */
@@ -235,6 +236,17 @@ explore_pool_run(explore_pool *p, int argc, char *const *argv,
     c->abandoned = 1;   /* the worker frees it */
     pthread_mutex_unlock(&p->lock);
     return how;
+}
+
+void
+explore_pool_hold(explore_pool *p, int hold)
+{
+    if (!p)
+        return;
+    pthread_mutex_lock(&p->lock);
+    p->held = hold != 0;
+    pthread_cond_broadcast(&p->work);
+    pthread_mutex_unlock(&p->lock);
 }
 
 void

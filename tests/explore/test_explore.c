@@ -171,8 +171,9 @@ pool_answers(void **state)
 }
 
 /* Past the deadline the requester is answered at once and the call is
- * dropped or finishes in its worker. Nothing is timed: the deadline
- * (1 us) is far below what loading the crystal database alone takes. */
+ * dropped. The pool is held, so the call is still queued when its
+ * deadline passes whatever the scheduler does; once released, the pool
+ * answers the same call in time. */
 static void
 pool_deadline(void **state)
 {
@@ -182,9 +183,15 @@ pool_deadline(void **state)
     char *call[] = {"period", "--crystal=MgO:LN", "--pump=1064nm",
                     "--idler=3.4um", "--json", NULL};
     dk_command_result r;
-    assert_int_equal(explore_pool_run(p, 5, call, 1e-6, &r), EXPLORE_LATE);
+    explore_pool_hold(p, 1);
+    assert_int_equal(explore_pool_run(p, 5, call, 1e-3, &r), EXPLORE_LATE);
     assert_null(r.out);
-    /* The worker ends after that call: nothing is left running. */
+    /* The late call left the queue: the queue of one has room again. */
+    explore_pool_hold(p, 0);
+    assert_int_equal(explore_pool_run(p, 5, call, 30, &r), EXPLORE_DONE);
+    assert_int_equal(r.exit_code, 0);
+    assert_non_null(strstr(r.out, "period_um"));
+    dk_command_result_free(&r);
     assert_int_equal(explore_pool_stop(p), 0);
 }
 
