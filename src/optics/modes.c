@@ -15,6 +15,7 @@
 
 #include "deltak/material.h"
 #include "deltak/modes.h"
+#include "optics/vec3.h"
 #include "data/jet.h"
 
 #define DEGENERATE 1e-14   /* relative eigenvalue split below which the
@@ -26,49 +27,6 @@ dk_direction(double theta_rad, double phi_rad, double s[3])
     s[0] = sin(theta_rad) * cos(phi_rad);
     s[1] = sin(theta_rad) * sin(phi_rad);
     s[2] = cos(theta_rad);
-}
-
-static void
-normalise(double v[3])
-{
-    double m = sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
-    if (m > 0)
-        for (int i = 0; i < 3; i++)
-            v[i] /= m;
-}
-
-static double
-dot(const double a[3], const double b[3])
-{
-    return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-
-static void
-cross(const double a[3], const double b[3], double r[3])
-{
-    r[0] = a[1] * b[2] - a[2] * b[1];
-    r[1] = a[2] * b[0] - a[0] * b[2];
-    r[2] = a[0] * b[1] - a[1] * b[0];
-}
-
-/* An orthonormal pair (p, q) normal to s; p lies in the plane of s and Z
- * (q normal to it), so that in uniaxial crystals p is the e and q the o
- * polarisation, which keeps labels and signs continuous. */
-static void
-basis(const double s[3], double p[3], double q[3])
-{
-    const double z[3] = {0, 0, 1};
-    cross(z, s, q);
-    if (dot(q, q) < 1e-24) {          /* s along Z: pick X and Y */
-        const double x[3] = {1, 0, 0};
-        cross(s, x, q);
-        if (dot(q, q) < 1e-24) {
-            q[0] = 0, q[1] = 1, q[2] = 0;
-        }
-    }
-    normalise(q);
-    cross(q, s, p);
-    normalise(p);
 }
 
 /* n jet of a principal axis from its value and derivatives. */
@@ -101,9 +59,9 @@ dk_modes_at(const dk_crystal *c, const dk_dispersion_set *set,
         a[i] = jet_div(jet_const(1), jet_mul(n, n));
     }
     double s[3] = {s_in[0], s_in[1], s_in[2]};
-    normalise(s);
+    vec3_normalise(s);
     double p[3], q[3];
-    basis(s, p, q);
+    vec3_basis(s, p, q);
     /* M = [[pᵀAp, pᵀAq], [pᵀAq, qᵀAq]] with A = diag(a). */
     dk_jet m11 = jet_const(0), m12 = jet_const(0), m22 = jet_const(0);
     for (int i = 0; i < 3; i++) {
@@ -136,16 +94,16 @@ dk_modes_at(const dk_crystal *c, const dk_dispersion_set *set,
         const double *v = k == 0 ? vsmall : vbig;
         for (int i = 0; i < 3; i++)
             m->d[i] = v[0] * p[i] + v[1] * q[i];
-        normalise(m->d);
+        vec3_normalise(m->d);
         for (int i = 0; i < 3; i++)
             m->e[i] = a[i].t[0] * m->d[i];
-        normalise(m->e);
-        double cr = fmin(1.0, fabs(dot(m->d, m->e)));
+        vec3_normalise(m->e);
+        double cr = fmin(1.0, fabs(vec3_dot(m->d, m->e)));
         m->walkoff_rad = acos(cr);
         double sxe[3];
-        cross(s, m->e, sxe);
-        cross(m->e, sxe, m->poynting);
-        normalise(m->poynting);
+        vec3_cross(s, m->e, sxe);
+        vec3_cross(m->e, sxe, m->poynting);
+        vec3_normalise(m->poynting);
         m->label = c->optical_class == DK_BIAXIAL ? (k == 0 ? 's' : 'f')
                                                   : 'n';
     }

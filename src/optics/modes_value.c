@@ -9,7 +9,8 @@
 #include <math.h>
 
 #include "deltak/material.h"
-#include "modes_value.h"
+#include "optics/modes_value.h"
+#include "optics/vec3.h"
 
 /* Walk-offs below this are rounding (D and E of an ordinary wave are
  * parallel to ~1e-16): reported as 0. */
@@ -40,54 +41,13 @@ dk_principal_n(const dk_crystal *c, const dk_dispersion_set *set,
     return DK_OK;
 }
 
-static void
-normalise(double v[3])
-{
-    double m = sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
-    if (m > 0)
-        for (int i = 0; i < 3; i++)
-            v[i] /= m;
-}
-
-static double
-dot(const double a[3], const double b[3])
-{
-    return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-
-static void
-cross(const double a[3], const double b[3], double r[3])
-{
-    r[0] = a[1] * b[2] - a[2] * b[1];
-    r[1] = a[2] * b[0] - a[0] * b[2];
-    r[2] = a[0] * b[1] - a[1] * b[0];
-}
-
-/* The basis of modes.c: p in the plane of s and Z, q normal to it. */
-static void
-basis(const double s[3], double p[3], double q[3])
-{
-    const double z[3] = {0, 0, 1};
-    cross(z, s, q);
-    if (dot(q, q) < 1e-24) {
-        const double x[3] = {1, 0, 0};
-        cross(s, x, q);
-        if (dot(q, q) < 1e-24) {
-            q[0] = 0, q[1] = 1, q[2] = 0;
-        }
-    }
-    normalise(q);
-    cross(q, s, p);
-    normalise(p);
-}
-
 void
 dk_dir_basis_of(const double s[3], dk_dir_basis *b)
 {
     for (int i = 0; i < 3; i++)
         b->s[i] = s[i];
-    normalise(b->s);
-    basis(b->s, b->p, b->q);
+    vec3_normalise(b->s);
+    vec3_basis(b->s, b->p, b->q);
 }
 
 /* The projected impermeability and its eigenvalues u[0] ≤ u[1]. */
@@ -204,21 +164,22 @@ dk_modes_value(const dk_crystal *c, const double n[3], const double s[3],
         const double *v = k == 0 ? vsmall : vbig;
         for (int i = 0; i < 3; i++)
             m->d[i] = v[0] * d.p[i] + v[1] * d.q[i];
-        normalise(m->d);
+        vec3_normalise(m->d);
         for (int i = 0; i < 3; i++)
             m->e[i] = a[i] * m->d[i];
-        normalise(m->e);
+        vec3_normalise(m->e);
         /* The angle between D and E; atan2 of |D × E| and D·E keeps full
          * precision near 0, where acos(D·E) loses half the digits. */
         double dxe[3];
-        cross(m->d, m->e, dxe);
-        m->walkoff_rad = atan2(sqrt(dot(dxe, dxe)), fabs(dot(m->d, m->e)));
+        vec3_cross(m->d, m->e, dxe);
+        m->walkoff_rad = atan2(sqrt(vec3_dot(dxe, dxe)),
+                               fabs(vec3_dot(m->d, m->e)));
         if (m->walkoff_rad < WALKOFF_FLOOR)
             m->walkoff_rad = 0;
         double sxe[3];
-        cross(d.s, m->e, sxe);
-        cross(m->e, sxe, m->poynting);
-        normalise(m->poynting);
+        vec3_cross(d.s, m->e, sxe);
+        vec3_cross(m->e, sxe, m->poynting);
+        vec3_normalise(m->poynting);
         m->label = label[k];
     }
 }
