@@ -96,6 +96,23 @@ point_state(const dk_sweep *s, dk_var target, double value, dk_waves *w,
         w->signal_um = dk_third_wave_um(w->pump_um, value);
 }
 
+/* The state of root @k of a solved point (@y[0..n-1]): for the
+ * wavelength pair the roots come as (signal, idler) pairs, an unpaired
+ * last signal with no idler. */
+static void
+root_state(const dk_sweep *s, dk_var target, const double *y, int n, int k,
+           dk_waves *w, double *t)
+{
+    if (target != DK_VAR_WAVELENGTHS) {
+        point_state(s, target, y[k], w, t);
+        return;
+    }
+    *w = s->d.waves;
+    *t = s->d.temp_c;
+    w->signal_um = y[k & ~1];
+    w->idler_um = (k | 1) < n ? y[k | 1] : NAN;
+}
+
 static int
 keep_period_of(const dk_design *base, const dk_sweep_spec *sp)
 {
@@ -118,15 +135,7 @@ eval_point(dk_sweep *s, const dk_sweep_spec *sp, int keep_period, point *pt,
         for (int k = 0; k < pt->n; k++) {
             dk_waves w;
             double t;
-            if (sp->target == DK_VAR_WAVELENGTHS) {
-                /* Pairs: signal, idler. */
-                w = d->waves;
-                w.signal_um = pt->y[k & ~1];
-                w.idler_um = (k | 1) < pt->n ? pt->y[k | 1] : NAN;
-                t = d->temp_c;
-            } else {
-                point_state(s, sp->target, pt->y[k], &w, &t);
-            }
+            root_state(s, sp->target, pt->y, pt->n, k, &w, &t);
             pt->f[k] = dk_design_range_flags(d, &w, t);
         }
         return DK_OK;
@@ -336,14 +345,7 @@ solve_each(void *vctx, int i, dk_sweep *s, const trace_point *tp)
     for (int k = 0; k < tp->n; k++) {
         dk_waves w;
         double t;
-        if (sp->target == DK_VAR_WAVELENGTHS) {
-            w = d->waves;
-            w.signal_um = pt->y[k & ~1];
-            w.idler_um = (k | 1) < pt->n ? pt->y[k | 1] : NAN;
-            t = d->temp_c;
-        } else {
-            point_state(s, sp->target, pt->y[k], &w, &t);
-        }
+        root_state(s, sp->target, pt->y, pt->n, k, &w, &t);
         pt->f[k] = dk_design_range_flags(d, &w, t);
         if (pt->f[k])
             dk_range_span_add(c->ex, pt->f[k], &w, t);
@@ -679,14 +681,9 @@ dk_sweep_curves(const dk_design *base, const dk_sweep_spec *sp,
                 if (pts[i].f[k]) {
                     dk_waves w;
                     double t;
-                    if (sp->quantity == DK_SWEEP_SOLVE &&
-                        sp->target != DK_VAR_WAVELENGTHS)
-                        point_state(s, sp->target, pts[i].y[k], &w, &t);
-                    else if (sp->quantity == DK_SWEEP_SOLVE)
-                        w = s->d.waves, t = s->d.temp_c,
-                        w.signal_um = pts[i].y[k & ~1],
-                        w.idler_um = (k | 1) < pts[i].n ? pts[i].y[k | 1]
-                                                        : NAN;
+                    if (sp->quantity == DK_SWEEP_SOLVE)
+                        root_state(s, sp->target, pts[i].y, pts[i].n, k, &w,
+                                   &t);
                     else
                         w = s->d.waves, t = s->d.temp_c;
                     dk_range_span_add(&ex, pts[i].f[k], &w, t);
