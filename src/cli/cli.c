@@ -105,6 +105,12 @@ cli_take_notes(const dk_notes *from)
 }
 
 void
+cli_drop_note(const char *code)
+{
+    dk_notes_remove(&notes, code);
+}
+
+void
 cli_warn_index(const dk_dispersion_set *set, unsigned flags, double lambda_um,
                double temp_c)
 {

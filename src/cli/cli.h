@@ -75,6 +75,8 @@ void cli_print_usage(FILE *f, const char *const usage[]);
 
 /* Add a design's notes. */
 void cli_take_notes(const dk_notes *n);
+/* Take back the note @code: a choice a later step made moot. */
+void cli_drop_note(const char *code);
 
 /* Text, JSON or CSV: how notes are shown (set by cli_common_finish). */
 void cli_set_output_mode(int mode);

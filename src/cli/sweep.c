@@ -487,10 +487,12 @@ plot_map(dk_plot *fig, const dk_map_spec *mp, const dk_map_result *m,
     return ps;
 }
 
-/* The design a sweep starts from: solved when its waves are complete. */
+/* The design a sweep starts from: solved when its waves are complete.
+ * When the sweep sets the temperature itself (@temp_swept), the 25 C the
+ * base falls back on is no choice made for the user and is not noted. */
 static int
 base_design(const cli_design_args *da, const cli_common *cm,
-            const dk_crystal *c, int angular, dk_design *d)
+            const dk_crystal *c, int angular, int temp_swept, dk_design *d)
 {
     dk_design_request rq;
     int rc = cli_design_request(da, CLI_D_ALL, 0, c, cm->crystal,
@@ -504,6 +506,10 @@ base_design(const cli_design_args *da, const cli_common *cm,
      * a birefringent one needs its modes: from --pol, or solved. */
     if ((rc = cli_design_make(&rq, d, 0)))
         return rc;
+    if (temp_swept && dk_set_has_temperature(d->set)) {
+        dk_notes_remove(&d->notes, "default-temperature");
+        cli_drop_note("default-temperature");
+    }
     if (complete && !(d->scheme == DK_SCHEME_QPM && rq.period_um > 0)) {
         dk_error err = {0};
         if (dk_design_solve(d, &err))
@@ -611,7 +617,11 @@ cmd_sweep(int argc, char **argv)
     const dk_crystal *c = cli_find_crystal(db, cm.crystal);
     if (!c || !d)
         goto done;
-    if ((rc = base_design(&da, &cm, c, angular, d)))
+    int temp_swept =
+        sp.x == DK_VAR_TEMP || (family && sp.family == DK_VAR_TEMP) ||
+        (map && mp.y == DK_VAR_TEMP) ||
+        (solve && sp.quantity == DK_SWEEP_SOLVE && sp.target == DK_VAR_TEMP);
+    if ((rc = base_design(&da, &cm, c, angular, temp_swept, d)))
         goto done;
     rc = CLI_FAIL;
     dk_status st = map ? dk_sweep_map(d, &mp, &mres, &err)

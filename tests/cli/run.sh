@@ -27,6 +27,20 @@ no_stdout() {
         fail=$((fail + 1)); echo "not ok: $name wrote to stdout on failure"; fi
 }
 
+# lacks NAME PATTERN -- ARGS...: the command succeeds and neither stdout
+# nor stderr matches the pattern.
+lacks() {
+    name=$1; pat=$2; shift 3
+    "$DK" "$@" >"$tmp/out" 2>"$tmp/err"; rc=$?
+    if [ "$rc" -eq 0 ] && ! cat "$tmp/out" "$tmp/err" | grep -Eq -- "$pat"; then
+        pass=$((pass + 1))
+    else
+        fail=$((fail + 1))
+        echo "not ok: $name (exit $rc; pattern '$pat' should not appear)"
+        sed 's/^/    /' "$tmp/out" "$tmp/err" | head -20
+    fi
+}
+
 # json_has NAME KEYS -- ARGS...: stdout parses as JSON and has the keys.
 json_has() {
     name=$1; keys=$2; shift 3
@@ -199,6 +213,11 @@ no_stdout sim-fail-quiet simulate --crystal BBO --pump 800nm --signal 1300nm --t
 expect sweep-csv 0 '^period_um,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --csv
 expect sweep-family 0 '^period_um,temp_C,idler_um' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --family temp=30,100 --csv
 expect sweep-map 0 '^pump_um,temp_C,sinc2' -- sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:5 --map temp=20:200:5 --length 20mm --csv
+# A sweep that sets the temperature itself makes no temperature choice.
+expect sweep-temp-default 0 'default-temperature' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --csv
+lacks sweep-temp-family 'default-temperature|temperature 25 C' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --family temp=30,100 --csv
+lacks sweep-temp-map 'default-temperature|temperature 25 C' -- sweep --crystal MgO:LN --signal 1550nm --period 30.5um --vary pump=1.05um:1.08um:5 --map temp=20:200:5 --length 20mm --csv
+lacks sweep-temp-solved 'default-temperature|temperature 25 C' -- sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary period=28um:32um:5 --solve temp --csv
 expect sweep-theta 0 '^fundamental_um,theta_deg' -- sweep --crystal BBO --fundamental 1064nm --type I --vary fundamental=0.8um:1.2um:5 --solve theta --csv
 # Figures on standard output (--plot -.svg), as `deltak explore` uses them.
 expect plot-stdout-svg 0 '^<\?xml' -- sweep --crystal MgO:LN --pump 1064nm --vary period=28um:32um:5 --solve idler --temp 40 --plot -.svg
