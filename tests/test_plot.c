@@ -15,6 +15,7 @@
 
 #include "deltak/plot.h"
 #include "figures/plot_internal.h"
+#include "cli/cli.h"
 
 static char tmpdir[64];
 
@@ -1603,6 +1604,108 @@ angle_figure(double w, double h)
     return p;
 }
 
+/* Notes (what a figure rests on) are legend lines without a sample: they
+ * lie inside the legend box, start where the samples do, show with no
+ * labelled series, and are refused when empty, malformed or too many. */
+static void
+legend_notes(void **state)
+{
+    (void)state;
+    for (int labelled = 0; labelled < 2; labelled++) {
+        dk_plot *p = new_plot(DK_PLOT_SINGLE_COLUMN_MM, 64);
+        double x[5] = {0, 1, 2, 3, 4}, y[5] = {0, 1, 4, 9, 16};
+        OK(dk_plot_add_line(p, x, y, 5, labelled ? "30 °C" : NULL, OKERR));
+        OK(dk_plot_add_note(p, "<i>assumed:</i> data set A", OKERR));
+        OK(dk_plot_add_note(p, "<i>from memory:</i> d of B", OKERR));
+        check_layout(p, labelled ? "notes-labelled" : "notes-only");
+        plot_layout L;
+        OK(plot_layout_compute(p, &L, OKERR));
+        assert_int_not_equal(L.legend_where, PLOT_LEGEND_HIDDEN);
+        int found = 0;
+        double sample_x = NAN;
+        for (int i = 0; i < L.ntexts; i++) {
+            const plot_text *t = &L.texts[i];
+            if (t->kind != PLOT_TEXT_LEGEND)
+                continue;
+            if (strstr(t->markup, "assumed:") ||
+                strstr(t->markup, "from memory:")) {
+                found++;
+                assert_true(t->x >= L.legend_box[0] &&
+                            t->x + t->w <= L.legend_box[0] +
+                                               L.legend_box[2] + 1e-9);
+                assert_true(fabs(t->x - L.legend_box[0] - L.legend_pad) <
+                            1e-9);
+            } else {
+                sample_x = t->x;
+            }
+        }
+        assert_int_equal(found, 2);
+        if (labelled) /* a series' text stands right of its sample */
+            assert_true(sample_x > L.legend_box[0] + L.legend_pad + L.f);
+        plot_layout_release(&L);
+        dk_plot_set_legend(p, DK_PLOT_LEGEND_NONE);
+        OK(plot_layout_compute(p, &L, OKERR));
+        assert_int_equal(L.legend_where, PLOT_LEGEND_HIDDEN);
+        plot_layout_release(&L);
+        dk_plot_free(p);
+    }
+    dk_plot *p = new_plot(DK_PLOT_SINGLE_COLUMN_MM, 64);
+    dk_error e = {0};
+    assert_int_equal(dk_plot_add_note(p, "", &e), DK_EINVAL);
+    assert_int_equal(dk_plot_add_note(p, NULL, &e), DK_EINVAL);
+    assert_int_equal(dk_plot_add_note(p, "<i>open", &e), DK_EINVAL);
+    assert_non_null(strstr(e.msg, "malformed"));
+    for (int i = 0; i < DK_PLOT_MAX_NOTES; i++)
+        OK(dk_plot_add_note(p, "a note", OKERR));
+    assert_int_equal(dk_plot_add_note(p, "one too many", &e), DK_EINVAL);
+    assert_non_null(strstr(e.msg, "at most"));
+    dk_plot_free(p);
+}
+
+/* A command's figure lists the default choices and from-memory numbers
+ * noted so far (cli_plot_add_notes), each cut to its head; range notes
+ * and cautions are left to the lines' own marks and the text output. */
+static void
+command_figure_notes(void **state)
+{
+    (void)state;
+    cli_set_streams(NULL, NULL);   /* starts with no notes */
+    dk_notes n;
+    dk_notes_clear(&n);
+    dk_notes_add(&n, DK_NOTE_DEFAULT, "default-set",
+                 "data set Gayer2008 (first set in the file); 2 sets exist: "
+                 "pick one with --dispersion");
+    dk_notes_add(&n, DK_NOTE_DEFAULT, "default-temperature",
+                 "temperature 25 C (not given; set it with --temp)");
+    dk_notes_add(&n, DK_NOTE_MEMORY, "from-memory:d",
+                 "the d coefficients of A&B are typed from memory; treat "
+                 "d_eff as an estimate");
+    dk_notes_add(&n, DK_NOTE_RANGE, "range:idler",
+                 "the idler lies outside the fitted range");
+    cli_take_notes(&n);
+    dk_plot *p = new_plot(DK_PLOT_SINGLE_COLUMN_MM, 64);
+    double x[3] = {0, 1, 2}, y[3] = {0, 1, 4};
+    OK(dk_plot_add_line(p, x, y, 3, NULL, OKERR));
+    OK(cli_plot_add_notes(p, OKERR));
+    plot_layout L;
+    OK(plot_layout_compute(p, &L, OKERR));
+    static const char *const want[] = {
+        "<i>assumed:</i> data set Gayer2008",
+        "<i>assumed:</i> temperature 25 C",
+        "<i>from memory:</i> the d coefficients of A&amp;B"};
+    int seen = 0;
+    for (int i = 0; i < L.ntexts; i++) {
+        if (L.texts[i].kind != PLOT_TEXT_LEGEND)
+            continue;
+        assert_string_equal(L.texts[i].markup, want[seen]);
+        seen++;
+    }
+    assert_int_equal(seen, 3);
+    plot_layout_release(&L);
+    dk_plot_free(p);
+    cli_set_streams(NULL, NULL);
+}
+
 static void
 layouts_without_overlap(void **state)
 {
@@ -2077,6 +2180,8 @@ main(void)
         cmocka_unit_test(write_errors),
         cmocka_unit_test(build_errors),
         cmocka_unit_test(presets_and_legends),
+        cmocka_unit_test(legend_notes),
+        cmocka_unit_test(command_figure_notes),
         cmocka_unit_test(styles_distinct_in_greyscale),
         cmocka_unit_test(layouts_without_overlap),
         cmocka_unit_test(layout_details),

@@ -251,6 +251,21 @@ dk_status dk_plot_add_marker(dk_plot *plot, double x, double y,
 dk_status dk_plot_add_band(dk_plot *plot, double x0, double x1,
                            const char *label, dk_error *err);
 
+/*
+ * dk_plot_add_note:
+ * A line of text listed last in the legend, without a sample: what the
+ * figure rests on that its lines do not show (a default choice, a number
+ * typed from memory). Notes show even when no series is labelled; a
+ * legend set to DK_PLOT_LEGEND_NONE hides them with the rest.
+ * @markup: pango markup (copied), not empty
+ *
+ * Returns: DK_OK; DK_EINVAL (empty or malformed markup, more than
+ * DK_PLOT_MAX_NOTES notes); DK_ENOMEM.
+ */
+#define DK_PLOT_MAX_NOTES 8
+dk_status dk_plot_add_note(dk_plot *plot, const char *markup,
+                           dk_error *err);
+
 /* An axis, for dk_plot_add_region(). */
 typedef enum dk_plot_axis {
     DK_PLOT_X_AXIS = 0,

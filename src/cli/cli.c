@@ -3,6 +3,7 @@
  * the command files (see cli.h).
  */
 #include <ctype.h>
+#include <glib.h>
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
@@ -102,6 +103,49 @@ void
 cli_take_notes(const dk_notes *from)
 {
     dk_notes_merge(&notes, from);
+}
+
+/* The head of a note's text, for a figure: up to the first "; ", " (",
+ * ": ", ", which" or " is/are typed from memory" (the rest says how to
+ * change the choice, which a figure has no room for). */
+static void
+note_head(const char *text, char *buf, size_t n)
+{
+    static const char *const stops[] = {"; ", " (", ": ", ", which",
+                                        " is typed from memory",
+                                        " are typed from memory"};
+    size_t len = strlen(text);
+    for (size_t i = 0; i < sizeof stops / sizeof *stops; i++) {
+        const char *at = strstr(text, stops[i]);
+        if (at && (size_t)(at - text) < len)
+            len = (size_t)(at - text);
+    }
+    if (len >= n)
+        len = n - 1;
+    memcpy(buf, text, len);
+    buf[len] = '\0';
+}
+
+dk_status
+cli_plot_add_notes(dk_plot *fig, dk_error *err)
+{
+    for (int i = 0; i < notes.n; i++) {
+        const dk_note *nt = &notes.item[i];
+        if (nt->kind != DK_NOTE_DEFAULT && nt->kind != DK_NOTE_MEMORY)
+            continue;
+        char head[DK_NOTE_TEXT_MAX];
+        note_head(nt->text, head, sizeof head);
+        char *esc = g_markup_escape_text(head, -1);
+        char *line = g_strdup_printf(
+            "<i>%s</i> %s",
+            nt->kind == DK_NOTE_DEFAULT ? "assumed:" : "from memory:", esc);
+        dk_status s = dk_plot_add_note(fig, line, err);
+        g_free(line);
+        g_free(esc);
+        if (s)
+            return s;
+    }
+    return DK_OK;
 }
 
 void

@@ -15,6 +15,7 @@
 #include "deltak/dispersion.h"
 #include "deltak/interaction.h"
 #include "deltak/notes.h"
+#include "deltak/plot.h"
 
 #define CLI_FAIL 1
 #define CLI_USAGE 2
@@ -75,6 +76,10 @@ void cli_print_usage(FILE *f, const char *const usage[]);
 
 /* Add a design's notes. */
 void cli_take_notes(const dk_notes *n);
+/* List the default choices and from-memory numbers noted so far in the
+ * figure's legend (short forms), so the figure says what it rests on. */
+dk_status cli_plot_add_notes(dk_plot *fig, dk_error *err);
+
 /* Take back the note @code: a choice a later step made moot. */
 void cli_drop_note(const char *code);
 

@@ -420,6 +420,8 @@ cmd_gain(int argc, char **argv)
                             fig, dk_plot_um_to_per_cm, dk_plot_per_cm_to_um,
                             NULL, "Wavenumber (cm<sup>−1</sup>)", &err);
                     if (!st)
+                        st = cli_plot_add_notes(fig, &err);
+                    if (!st)
                         st = dk_plot_write(fig, plot, &err);
                 }
             }

@@ -47,9 +47,12 @@ cli_plot_stdout_format(const cli_plot_args *a)
 }
 
 dk_status
-cli_plot_write(const cli_plot_args *a, const dk_plot *fig, FILE *out,
+cli_plot_write(const cli_plot_args *a, dk_plot *fig, FILE *out,
                dk_error *err)
 {
+    dk_status s = cli_plot_add_notes(fig, err);
+    if (s)
+        return s;
     const char *format = cli_plot_stdout_format(a);
     if (!format)
         return dk_plot_write(fig, T(OPT_PLOT), err);

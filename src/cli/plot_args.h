@@ -67,7 +67,7 @@ const char *cli_plot_stdout_format(const cli_plot_args *a);
 /* Write @fig where --plot says: into the file, or, for -.FMT, into @out
  * (the command's output buffer, committed to standard output on
  * success). Returns DK_OK or the plot engine's error. */
-dk_status cli_plot_write(const cli_plot_args *a, const dk_plot *fig,
+dk_status cli_plot_write(const cli_plot_args *a, dk_plot *fig,
                          FILE *out, dk_error *err);
 
 /* Check and read the options; options other than --plot without --plot

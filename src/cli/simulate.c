@@ -587,6 +587,8 @@ draw(const cli_plot_args *pa, const char *path, const char *figure,
             s = dk_plot_set_yrange(fig, 0, 1.08, err);
     }
     if (!s)
+        s = cli_plot_add_notes(fig, err);
+    if (!s)
         s = dk_plot_write(fig, path, err);
     dk_plot_free(fig);
     return s;
@@ -668,6 +670,8 @@ run_mix(const int *mode, dk_design *d, const dk_sim_problem *p,
         }
         if (!s)
             s = dk_plot_set_yrange(fig, 0, 1.08, &err);
+        if (!s)
+            s = cli_plot_add_notes(fig, &err);
         if (!s)
             s = dk_plot_write(fig, plot, &err);
         free(x);

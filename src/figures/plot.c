@@ -199,6 +199,9 @@ dk_plot_free(dk_plot *p)
     for (size_t i = 0; i < p->nregions; i++)
         free(p->regions[i].label);
     free(p->regions);
+    for (size_t i = 0; i < p->nnotes; i++)
+        free(p->notes[i]);
+    free(p->notes);
     for (size_t i = 0; i < p->nbranches; i++)
         free(p->branches[i].label);
     free(p->branches);
@@ -536,6 +539,28 @@ dk_plot_add_region(dk_plot *p, dk_plot_axis axis, double lo, double hi,
     }
     p->regions = arr;
     p->regions[p->nregions++] = (plot_region){axis, lo, hi, lab};
+    return DK_OK;
+}
+
+dk_status
+dk_plot_add_note(dk_plot *p, const char *markup, dk_error *err)
+{
+    if (!markup || !*markup)
+        return dk_error_set(err, DK_EINVAL, "a figure note needs text");
+    if (p->nnotes >= DK_PLOT_MAX_NOTES)
+        return dk_error_set(err, DK_EINVAL, "a figure takes at most %d notes",
+                            DK_PLOT_MAX_NOTES);
+    char *text;
+    dk_status s = markup_copy(markup, &text, err);
+    if (s)
+        return s;
+    char **arr = grow(p->notes, &p->capnotes, p->nnotes, sizeof *p->notes);
+    if (!arr) {
+        free(text);
+        return dk_error_set(err, DK_ENOMEM, "out of memory for a note");
+    }
+    p->notes = arr;
+    p->notes[p->nnotes++] = text;
     return DK_OK;
 }
 

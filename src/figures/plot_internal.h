@@ -92,6 +92,8 @@ struct dk_plot {
     size_t nbands, capbands;
     plot_region *regions;
     size_t nregions, capregions;
+    char **notes;               /* legend lines without a sample */
+    size_t nnotes, capnotes;
     plot_branch_label *branches;
     size_t nbranches, capbranches;
     plot_contour contours[PLOT_MAX_CONTOURS];
@@ -244,7 +246,7 @@ typedef struct plot_text {
 enum {
     PLOT_ITEM_SERIES, PLOT_ITEM_BAND, PLOT_ITEM_CONTOUR, PLOT_ITEM_REGION,
     PLOT_ITEM_OUTSIDE_FIT, PLOT_ITEM_MAP_OUTSIDE_FIT, PLOT_ITEM_MAP_OPAQUE,
-    PLOT_ITEM_MAP_BLANK
+    PLOT_ITEM_MAP_BLANK, PLOT_ITEM_NOTE
 };
 
 typedef struct plot_legend_item {
