@@ -1604,51 +1604,81 @@ angle_figure(double w, double h)
     return p;
 }
 
-/* Notes (what a figure rests on) are legend lines without a sample: they
- * lie inside the legend box, start where the samples do, show with no
- * labelled series, and are refused when empty, malformed or too many. */
+/* The footnote lines, joined again by "; ", into @buf; their count. Each
+ * lies on the page at the bottom left, below every other text and the
+ * legend. */
+static int
+footnote_of(const plot_layout *L, char *buf, size_t n)
+{
+    buf[0] = '\0';
+    int nlines = 0;
+    double left = NAN;
+    double top = INFINITY;
+    for (int i = 0; i < L->ntexts; i++) {
+        const plot_text *t = &L->texts[i];
+        if (t->kind != PLOT_TEXT_NOTE)
+            continue;
+        if (nlines++)
+            g_strlcat(buf, "; ", n);
+        g_strlcat(buf, t->markup, n);
+        assert_true(t->x >= 0 && t->x + t->w <= L->page_w + 1e-9);
+        assert_true(t->y + t->h <= L->page_h + 1e-9);
+        if (isnan(left))
+            left = t->x;
+        assert_true(fabs(t->x - left) < 1e-9);   /* flush left */
+        top = fmin(top, t->y);
+    }
+    for (int i = 0; i < L->ntexts; i++) {
+        const plot_text *t = &L->texts[i];
+        if (t->kind != PLOT_TEXT_NOTE)
+            assert_true(t->y + t->h <= top + 1e-9);
+    }
+    if (nlines && L->legend_where != PLOT_LEGEND_HIDDEN)
+        assert_true(L->legend_box[1] + L->legend_box[3] <= top + 1e-9);
+    return nlines;
+}
+
+/* Notes (what a figure rests on) are a footnote: joined by "; ", wrapped
+ * between notes on a narrow page, below the axes, labels and an outside
+ * legend; refused when empty, malformed or too many. */
 static void
-legend_notes(void **state)
+figure_notes(void **state)
 {
     (void)state;
-    for (int labelled = 0; labelled < 2; labelled++) {
-        dk_plot *p = new_plot(DK_PLOT_SINGLE_COLUMN_MM, 64);
+    static const char *const notes[] = {
+        "<i>assumed:</i> data set Alpha2001", "temperature 25 C",
+        "solution 2 of 3", "<i>from memory:</i> the d coefficients of B"};
+    const char *joined = "<i>assumed:</i> data set Alpha2001; temperature "
+                         "25 C; solution 2 of 3; <i>from memory:</i> the d "
+                         "coefficients of B";
+    static const double widths[] = {DK_PLOT_DOUBLE_COLUMN_MM,
+                                    DK_PLOT_SINGLE_COLUMN_MM, 45};
+    int rows[3];
+    for (int w = 0; w < 3; w++) {
+        dk_plot *p = new_plot(widths[w], 64);
         double x[5] = {0, 1, 2, 3, 4}, y[5] = {0, 1, 4, 9, 16};
-        OK(dk_plot_add_line(p, x, y, 5, labelled ? "30 °C" : NULL, OKERR));
-        OK(dk_plot_add_note(p, "<i>assumed:</i> data set A", OKERR));
-        OK(dk_plot_add_note(p, "<i>from memory:</i> d of B", OKERR));
-        check_layout(p, labelled ? "notes-labelled" : "notes-only");
+        for (int s = 0; s < 6; s++) {
+            double ys[5];
+            for (int k = 0; k < 5; k++)
+                ys[k] = y[k] + s;
+            OK(dk_plot_add_line(p, x, ys, 5, "a labelled series", OKERR));
+        }
+        dk_plot_set_legend(p, DK_PLOT_LEGEND_OUTSIDE);
+        for (int i = 0; i < 4; i++)
+            OK(dk_plot_add_note(p, notes[i], OKERR));
+        char name[32];
+        snprintf(name, sizeof name, "notes-%d", w);
+        check_layout(p, name);
         plot_layout L;
         OK(plot_layout_compute(p, &L, OKERR));
-        assert_int_not_equal(L.legend_where, PLOT_LEGEND_HIDDEN);
-        int found = 0;
-        double sample_x = NAN;
-        for (int i = 0; i < L.ntexts; i++) {
-            const plot_text *t = &L.texts[i];
-            if (t->kind != PLOT_TEXT_LEGEND)
-                continue;
-            if (strstr(t->markup, "assumed:") ||
-                strstr(t->markup, "from memory:")) {
-                found++;
-                assert_true(t->x >= L.legend_box[0] &&
-                            t->x + t->w <= L.legend_box[0] +
-                                               L.legend_box[2] + 1e-9);
-                assert_true(fabs(t->x - L.legend_box[0] - L.legend_pad) <
-                            1e-9);
-            } else {
-                sample_x = t->x;
-            }
-        }
-        assert_int_equal(found, 2);
-        if (labelled) /* a series' text stands right of its sample */
-            assert_true(sample_x > L.legend_box[0] + L.legend_pad + L.f);
-        plot_layout_release(&L);
-        dk_plot_set_legend(p, DK_PLOT_LEGEND_NONE);
-        OK(plot_layout_compute(p, &L, OKERR));
-        assert_int_equal(L.legend_where, PLOT_LEGEND_HIDDEN);
+        char buf[512];
+        rows[w] = footnote_of(&L, buf, sizeof buf);
+        assert_string_equal(buf, joined);
         plot_layout_release(&L);
         dk_plot_free(p);
     }
+    assert_int_equal(rows[0], 1);      /* a wide page takes it in one */
+    assert_true(rows[2] > 1 && rows[2] >= rows[1]);
     dk_plot *p = new_plot(DK_PLOT_SINGLE_COLUMN_MM, 64);
     dk_error e = {0};
     assert_int_equal(dk_plot_add_note(p, "", &e), DK_EINVAL);
@@ -1662,9 +1692,10 @@ legend_notes(void **state)
     dk_plot_free(p);
 }
 
-/* A command's figure lists the default choices and from-memory numbers
- * noted so far (cli_plot_add_notes), each cut to its head; range notes
- * and cautions are left to the lines' own marks and the text output. */
+/* A command's figure carries the default choices and from-memory numbers
+ * noted so far as its footnote (cli_plot_add_notes), each cut to its
+ * head, each kind named once; range notes and cautions are left to the
+ * lines' own marks and the text output. */
 static void
 command_figure_notes(void **state)
 {
@@ -1689,18 +1720,11 @@ command_figure_notes(void **state)
     OK(cli_plot_add_notes(p, OKERR));
     plot_layout L;
     OK(plot_layout_compute(p, &L, OKERR));
-    static const char *const want[] = {
-        "<i>assumed:</i> data set Gayer2008",
-        "<i>assumed:</i> temperature 25 C",
-        "<i>from memory:</i> the d coefficients of A&amp;B"};
-    int seen = 0;
-    for (int i = 0; i < L.ntexts; i++) {
-        if (L.texts[i].kind != PLOT_TEXT_LEGEND)
-            continue;
-        assert_string_equal(L.texts[i].markup, want[seen]);
-        seen++;
-    }
-    assert_int_equal(seen, 3);
+    char buf[512];
+    footnote_of(&L, buf, sizeof buf);
+    assert_string_equal(buf, "<i>assumed:</i> data set Gayer2008; "
+                             "temperature 25 C; <i>from memory:</i> the d "
+                             "coefficients of A&amp;B");
     plot_layout_release(&L);
     dk_plot_free(p);
     cli_set_streams(NULL, NULL);
@@ -2180,7 +2204,7 @@ main(void)
         cmocka_unit_test(write_errors),
         cmocka_unit_test(build_errors),
         cmocka_unit_test(presets_and_legends),
-        cmocka_unit_test(legend_notes),
+        cmocka_unit_test(figure_notes),
         cmocka_unit_test(command_figure_notes),
         cmocka_unit_test(styles_distinct_in_greyscale),
         cmocka_unit_test(layouts_without_overlap),

@@ -253,16 +253,16 @@ dk_status dk_plot_add_band(dk_plot *plot, double x0, double x1,
 
 /*
  * dk_plot_add_note:
- * A line of text listed last in the legend, without a sample: what the
- * figure rests on that its lines do not show (a default choice, a number
- * typed from memory). Notes show even when no series is labelled; a
- * legend set to DK_PLOT_LEGEND_NONE hides them with the rest.
+ * A footnote under the figure: what the figure rests on that its lines
+ * do not show (a default choice, a number typed from memory). Notes are
+ * set small at the bottom left, joined by "; " and wrapped between notes
+ * into as few lines as the width allows; the legend and axes make room.
  * @markup: pango markup (copied), not empty
  *
  * Returns: DK_OK; DK_EINVAL (empty or malformed markup, more than
  * DK_PLOT_MAX_NOTES notes); DK_ENOMEM.
  */
-#define DK_PLOT_MAX_NOTES 8
+#define DK_PLOT_MAX_NOTES 16
 dk_status dk_plot_add_note(dk_plot *plot, const char *markup,
                            dk_error *err);
 

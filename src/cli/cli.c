@@ -129,21 +129,29 @@ note_head(const char *text, char *buf, size_t n)
 dk_status
 cli_plot_add_notes(dk_plot *fig, dk_error *err)
 {
-    for (int i = 0; i < notes.n; i++) {
-        const dk_note *nt = &notes.item[i];
-        if (nt->kind != DK_NOTE_DEFAULT && nt->kind != DK_NOTE_MEMORY)
-            continue;
-        char head[DK_NOTE_TEXT_MAX];
-        note_head(nt->text, head, sizeof head);
-        char *esc = g_markup_escape_text(head, -1);
-        char *line = g_strdup_printf(
-            "<i>%s</i> %s",
-            nt->kind == DK_NOTE_DEFAULT ? "assumed:" : "from memory:", esc);
-        dk_status s = dk_plot_add_note(fig, line, err);
-        g_free(line);
-        g_free(esc);
-        if (s)
-            return s;
+    static const dk_note_kind kinds[] = {DK_NOTE_DEFAULT, DK_NOTE_MEMORY};
+    static const char *const heads[] = {"assumed:", "from memory:"};
+    for (int k = 0; k < 2; k++) {
+        int first = 1;
+        for (int i = 0; i < notes.n; i++) {
+            const dk_note *nt = &notes.item[i];
+            if (nt->kind != kinds[k])
+                continue;
+            char head[DK_NOTE_TEXT_MAX];
+            note_head(nt->text, head, sizeof head);
+            char *esc = g_markup_escape_text(head, -1);
+            /* The kind heads its first note only: the notes are joined
+             * into one footnote. */
+            char *line = first ? g_strdup_printf("<i>%s</i> %s", heads[k],
+                                                 esc)
+                               : g_strdup(esc);
+            dk_status s = dk_plot_add_note(fig, line, err);
+            g_free(line);
+            g_free(esc);
+            if (s)
+                return s;
+            first = 0;
+        }
     }
     return DK_OK;
 }

@@ -76,8 +76,9 @@ void cli_print_usage(FILE *f, const char *const usage[]);
 
 /* Add a design's notes. */
 void cli_take_notes(const dk_notes *n);
-/* List the default choices and from-memory numbers noted so far in the
- * figure's legend (short forms), so the figure says what it rests on. */
+/* Put the default choices and from-memory numbers noted so far under the
+ * figure as a footnote (short forms), so the figure says what it rests
+ * on. */
 dk_status cli_plot_add_notes(dk_plot *fig, dk_error *err);
 
 /* Take back the note @code: a choice a later step made moot. */

@@ -29,9 +29,13 @@
  * smaller to fit (down to half size), so that no text is cut by the page
  * edge. The title is 1.15 times the type size.
  *
+ * Footnotes (dk_plot_add_note) are set at FOOT_SIZE at the bottom left,
+ * joined by "; " and broken between notes where the width runs out (a
+ * note wider than the page alone is set smaller, as a long label).
+ *
  * The box: the page less an outer pad, the title, the tick labels, the
- * axis labels, the colour bar with its labels, and room for a legend
- * outside (on the right or below) when one is asked for. Ticks and box depend on
+ * axis labels, the colour bar with its labels, the footnote, and room
+ * for a legend outside (on the right or below) when one is asked for. Ticks and box depend on
  * each other through the label sizes, so the two are iterated (labels
  * change by whole ticks, so this settles). All lengths are multiples of
  * the type size f.
@@ -64,6 +68,9 @@
 #define TITLE_SIZE 1.15    /* title type, em */
 #define TITLE_GAP 0.6      /* title to what is below it, em */
 #define MIN_SHRINK 0.5     /* smallest size a long label is set at */
+#define FOOT_SIZE 0.8      /* footnote type, em */
+#define FOOT_ROW 1.2       /* footnote line pitch, in its type size */
+#define FOOT_GAP 0.4       /* what is above to the footnote, em */
 
 static const double INK[3] = {0.10, 0.10, 0.10};
 
@@ -561,6 +568,44 @@ all_ticks(const dk_plot *p, PangoContext *ctx, plot_layout *L, dk_error *err)
     return s;
 }
 
+/* Pack the notes into lines that fit the page width; their size and the
+ * height they take at the bottom. Returns -1 when out of memory. */
+static int
+foot_lines(const dk_plot *p, PangoContext *ctx, plot_layout *L)
+{
+    for (int i = 0; i < L->nfoot; i++)
+        g_free(L->foot[i]);
+    L->nfoot = 0;
+    L->foot_h = 0;
+    if (!p->nnotes)
+        return 0;
+    double f = L->f, size = FOOT_SIZE * f, room = L->page_w - 2 * PAD * f;
+    char *line = NULL;
+    for (size_t i = 0; i < p->nnotes; i++) {
+        char *joined = line ? g_strconcat(line, "; ", p->notes[i], NULL)
+                            : g_strdup(p->notes[i]);
+        if (!joined)
+            return -1;
+        double w, h;
+        plot_text_size(ctx, joined, size, &w, &h);
+        if (!line || w <= room) {
+            g_free(line);
+            line = joined;
+            continue;
+        }
+        g_free(joined);
+        L->foot[L->nfoot++] = line;
+        line = g_strdup(p->notes[i]);
+    }
+    L->foot[L->nfoot++] = line;
+    L->foot_size = size;
+    for (int i = 0; i < L->nfoot; i++)
+        L->foot_size = fmin(L->foot_size,
+                            fitting_size(ctx, L->foot[i], size, room));
+    L->foot_h = FOOT_GAP * f + L->nfoot * FOOT_ROW * L->foot_size;
+    return 0;
+}
+
 /* Settle ticks and margins. */
 static dk_status
 place_box(const dk_plot *p, PangoContext *ctx, plot_layout *L, sizes *S,
@@ -571,7 +616,7 @@ place_box(const dk_plot *p, PangoContext *ctx, plot_layout *L, sizes *S,
     L->ax_y = (L->has_top ? 4 : 1) * f + (p->title ? 2 * f : 0);
     L->ax_w = L->page_w - L->ax_x - (L->has_map ? 8 : 1.5) * f -
               L->reserve_right;
-    L->ax_h = L->page_h - L->ax_y - 4 * f - L->reserve_bottom;
+    L->ax_h = L->page_h - L->ax_y - 4 * f - L->reserve_bottom - L->foot_h;
     for (int pass = 0; pass < LAYOUT_PASSES; pass++) {
         if (L->ax_w < 3 * f || L->ax_h < 3 * f)
             break;
@@ -594,7 +639,7 @@ place_box(const dk_plot *p, PangoContext *ctx, plot_layout *L, sizes *S,
         left = fmax(left, PAD * f + oh_l);
         double bottom = PAD * f +
                         (S->xl_h > 0 ? S->xl_h + LABEL_GAP * f : 0) +
-                        L->x.label_h + gap + L->reserve_bottom;
+                        L->x.label_h + gap + L->reserve_bottom + L->foot_h;
         double top = PAD * f + (S->title_h > 0 ? S->title_h + TITLE_GAP * f
                                                : 0);
         if (L->has_top) {
@@ -736,6 +781,14 @@ axis_texts(const dk_plot *p, PangoContext *ctx, plot_layout *L,
         if (plot_layout_add_text(L, &t) < 0)
             return -1;
     }
+    for (int i = 0; i < L->nfoot; i++) {
+        double row = FOOT_ROW * L->foot_size;
+        t = text_at(ctx, PLOT_TEXT_NOTE, L->foot[i], L->foot_size, pad,
+                    L->page_h - pad - (L->nfoot - i) * row, H_LEFT, V_TOP,
+                    0);
+        if (plot_layout_add_text(L, &t) < 0)
+            return -1;
+    }
     return 0;
 }
 
@@ -754,6 +807,8 @@ plot_axes_compute(const dk_plot *p, PangoContext *ctx, plot_layout *L,
     if (p->to_top && (s = top_range(p, L, err)))
         return s;
     sizes S;
+    if (foot_lines(p, ctx, L))
+        return dk_error_set(err, DK_ENOMEM, "out of memory for the notes");
     s = place_box(p, ctx, L, &S, err);
     if (s)
         return s;

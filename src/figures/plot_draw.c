@@ -721,8 +721,6 @@ draw_legend_sample(draw *d, const plot_legend_item *it, double x, double y)
         cairo_line_to(cr, x + len, y);
         stroke_contour_path(d, (int)it->index);
         break;
-    case PLOT_ITEM_NOTE:   /* text only */
-        break;
     }
     cairo_set_dash(cr, NULL, 0, 0);
 }

@@ -227,7 +227,7 @@ enum {
     PLOT_TEXT_TICK_X, PLOT_TEXT_TICK_Y, PLOT_TEXT_TICK_TOP, PLOT_TEXT_TICK_Z,
     PLOT_TEXT_XLABEL, PLOT_TEXT_YLABEL, PLOT_TEXT_TOPLABEL, PLOT_TEXT_ZLABEL,
     PLOT_TEXT_MULT, PLOT_TEXT_TITLE, PLOT_TEXT_LEGEND, PLOT_TEXT_MARKER,
-    PLOT_TEXT_BRANCH
+    PLOT_TEXT_BRANCH, PLOT_TEXT_NOTE
 };
 
 /* A text placed on the page: its box (pt, y down; for a rotated text the
@@ -246,7 +246,7 @@ typedef struct plot_text {
 enum {
     PLOT_ITEM_SERIES, PLOT_ITEM_BAND, PLOT_ITEM_CONTOUR, PLOT_ITEM_REGION,
     PLOT_ITEM_OUTSIDE_FIT, PLOT_ITEM_MAP_OUTSIDE_FIT, PLOT_ITEM_MAP_OPAQUE,
-    PLOT_ITEM_MAP_BLANK, PLOT_ITEM_NOTE
+    PLOT_ITEM_MAP_BLANK
 };
 
 typedef struct plot_legend_item {
@@ -283,6 +283,10 @@ typedef struct plot_layout {
     double reserve_right;               /* room kept for an outside legend, */
     double reserve_bottom;              /* on the right or below */
     char *ylabel, *zlabel;              /* axis labels with "(×10^k)" */
+    char *foot[DK_PLOT_MAX_NOTES];      /* the notes packed into lines */
+    int nfoot;
+    double foot_size, foot_h;           /* their type size; the height
+                                           kept for them at the bottom */
 
     plot_text *texts;                   /* every text on the page */
     int ntexts, captexts;

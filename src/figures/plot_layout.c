@@ -46,6 +46,8 @@ plot_layout_release(plot_layout *L)
     clear_placed(L);
     free(L->texts);
     free(L->items);
+    for (int i = 0; i < L->nfoot; i++)
+        g_free(L->foot[i]);
     memset(L, 0, sizeof *L);
 }
 

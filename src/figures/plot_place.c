@@ -433,8 +433,6 @@ plot_place_legend_items(const dk_plot *p, PangoContext *ctx, plot_layout *L,
         if (!rc && (L->map_flags & PLOT_MAP_BLANK) && p->map->blank_label)
             rc = add_item(L, PLOT_ITEM_MAP_BLANK, 0, p->map->blank_label);
     }
-    for (size_t i = 0; i < p->nnotes && !rc; i++)
-        rc = add_item(L, PLOT_ITEM_NOTE, i, p->notes[i]);
     if (rc)
         return -1;
     if (L->nitems == 0)
@@ -443,9 +441,6 @@ plot_place_legend_items(const dk_plot *p, PangoContext *ctx, plot_layout *L,
     for (int i = 0; i < L->nitems; i++) {
         double iw, ih;
         plot_text_size(ctx, L->items[i].markup, size, &iw, &ih);
-        /* A note has no sample: its text starts where the samples do. */
-        if (L->items[i].kind == PLOT_ITEM_NOTE)
-            iw -= (LEGEND_SAMPLE + LEGEND_GAP) * f;
         tw = fmax(tw, iw);
     }
     L->legend_size = size;
@@ -471,10 +466,7 @@ legend_texts(PangoContext *ctx, plot_layout *L, double x, double y)
         plot_text_measure(ctx, L->items[i].markup, size, &m);
         plot_text t = {.kind = PLOT_TEXT_LEGEND,
                        .markup = L->items[i].markup, .size = size,
-                       .x = x + L->legend_pad +
-                            (L->items[i].kind == PLOT_ITEM_NOTE
-                                 ? 0
-                                 : (LEGEND_SAMPLE + LEGEND_GAP) * f),
+                       .x = x + L->legend_pad + (LEGEND_SAMPLE + LEGEND_GAP) * f,
                        .y = capmid - (m.base - PLOT_CAP_HEIGHT * size / 2),
                        .w = m.w, .h = m.h,
                        .rgb = {INK[0], INK[1], INK[2]}};
@@ -497,7 +489,7 @@ place_legend(const dk_plot *p, PangoContext *ctx, plot_layout *L,
          * below, centred under the axes and kept on the page. */
         double x = L->page_w - 0.5 * f - w, y = L->ax_y;
         if (L->reserve_bottom > 0) {
-            y = L->page_h - 0.5 * f - h;
+            y = L->page_h - 0.5 * f - h - L->foot_h;
             x = fmin(fmax(L->ax_x + (L->ax_w - w) / 2, 0.5 * f),
                      L->page_w - 0.5 * f - w);
         }
