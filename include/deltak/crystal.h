@@ -246,6 +246,10 @@ dk_status dk_db_add_file(dk_db *db, const char *path,
  */
 const dk_crystal *dk_db_find(const dk_db *db, const char *name);
 
+/* 1 when @c answers to @name: its id or one of its aliases, letter case
+ * ignored; else 0. */
+int dk_crystal_answers_to(const dk_crystal *c, const char *name);
+
 /*
  * dk_crystal_find_set:
  * @name: a set name, matched case-insensitively; NULL for the default

@@ -8,6 +8,7 @@
 #include <math.h>
 #include <stdlib.h>
 
+#include "analyses/samples_fwhm.h"
 #include "deltak/bandwidth.h"
 #include "deltak/constants.h"
 #include "deltak/design_sim.h"
@@ -249,28 +250,6 @@ half_band(double tau, dk_pulse_shape s)
     return sqrt(8 * M_LN2 * log(1e6)) / tau;
 }
 
-/* FWHM of samples @y at spacing @dt between the outermost points at half
- * the peak, interpolated linearly. */
-static double
-fwhm_of(const double *y, size_t n, double dt)
-{
-    size_t im = 0;
-    for (size_t i = 1; i < n; i++)
-        if (y[i] > y[im])
-            im = i;
-    double h = 0.5 * y[im];
-    size_t a = 0, b = n - 1;
-    while (a < im && y[a] < h)
-        a++;
-    while (b > im && y[b] < h)
-        b--;
-    if (a == 0 || b == n - 1)
-        return NAN;   /* not resolved inside the window */
-    double ta = (a - 1) + (h - y[a - 1]) / (y[a] - y[a - 1]);
-    double tb = b + (y[b] - h) / (y[b] - y[b + 1]);
-    return (tb - ta) * dt;
-}
-
 dk_status
 dk_design_dispersed(dk_design *d, int wave, double fwhm_fs,
                     dk_pulse_shape s, double length_mm, dk_dispersed *out,
@@ -359,7 +338,7 @@ dk_design_dispersed(dk_design *d, int wave, double fwhm_fs,
         }
         y[j] = creal(sum) * creal(sum) + cimag(sum) * cimag(sum);
     }
-    out->fwhm_out_fs = fwhm_of(y, NT, dt);
+    out->fwhm_out_fs = dk_samples_fwhm(y, NT, dt);
     if (!isfinite(out->fwhm_out_fs))
         st = dk_error_set(err, DK_ERANGE, "the dispersed pulse was not "
                                           "resolved");

@@ -9,14 +9,15 @@
  * per bin of width 1/(n dt) in frequency the density is (n dt)² |ã_k|².
  * Photon numbers are Σ_k F_k / ħω_k over the bins (exact for the spectrum,
  * not a carrier estimate). Durations are full widths at half maximum
- * between the outermost half-maximum crossings, interpolated linearly
- * (common practice for pulses with structure); the transform limit is that
+ * between the outermost half-maximum crossings (samples_fwhm.c; common
+ * practice for pulses with structure); the transform limit is that
  * width for the same spectrum with a flat phase.
  */
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
+#include "analyses/samples_fwhm.h"
 #include "analyses/simulate_internal.h"
 
 #define HBAR_J_S 1.054571817e-34
@@ -27,57 +28,6 @@
 #define PHASE_FLOOR 1e-12      /* spectral phase shown above this × peak */
 #define PER_FS_TO_THZ 1e3
 #define REFINE_BELOW 32        /* samples across a FWHM */
-
-/* The abscissa (in samples) in [i − 1, i] where y crosses @half, from
- * the cubic through samples i − 2 … i + 1 (linear at the array's ends);
- * y[i − 1] < half ≤ y[i] or the reverse. */
-static double
-crossing(const double *y, size_t n, size_t i, double half)
-{
-    double lin = (double)(i - 1) + (half - y[i - 1]) / (y[i] - y[i - 1]);
-    if (i < 2 || i + 1 >= n)
-        return lin;
-    const double *p = y + i - 2; /* nodes at −1, 0, 1, 2 relative to i − 1 */
-    double a = i - 1.0, lo = 0, hi = 1;
-    double flo = p[1] - half;
-    for (int it = 0; it < 60; it++) {
-        double t = 0.5 * (lo + hi);
-        double v = -p[0] * t * (t - 1) * (t - 2) / 6 +
-                   p[1] * (t + 1) * (t - 1) * (t - 2) / 2 -
-                   p[2] * (t + 1) * t * (t - 2) / 2 +
-                   p[3] * (t + 1) * t * (t - 1) / 6 - half;
-        if ((v < 0) == (flo < 0))
-            lo = t;
-        else
-            hi = t;
-    }
-    return a + 0.5 * (lo + hi);
-}
-
-/* FWHM of y on a uniform axis of spacing dx, between the outermost
- * half-maximum crossings; NAN when y has no peak or does not fall to half
- * of it inside the array. */
-static double
-fwhm(const double *y, size_t n, double dx)
-{
-    size_t im = 0;
-    for (size_t i = 1; i < n; i++)
-        if (y[i] > y[im])
-            im = i;
-    double half = 0.5 * y[im];
-    if (!(half > 0))
-        return NAN;
-    size_t lo = 0, hi = n - 1;
-    while (y[lo] < half)
-        lo++;
-    while (y[hi] < half)
-        hi--;
-    if (lo == 0 || hi == n - 1)
-        return NAN;
-    double xl = crossing(y, n, lo, half);
-    double xr = crossing(y, n, hi + 1, half);
-    return (xr - xl) * dx;
-}
 
 /* |Σ_k c_k e^{i σ m_k u x}|², m_k = k or k − n (FFT order): the band-
  * limited interpolation of sampled data between its samples. With the
@@ -113,7 +63,7 @@ static double
 fwhm_refined(const double *y, size_t n, double dx, const double complex *c,
              double u, int sigma)
 {
-    double w = fwhm(y, n, dx);
+    double w = dk_samples_fwhm(y, n, dx);
     if (!isfinite(w) || w >= REFINE_BELOW * dx)
         return w;
     size_t im = 0;
@@ -149,7 +99,8 @@ fwhm_refined(const double *y, size_t n, double dx, const double complex *c,
         hi--;
     if (lo == 0 || hi == n - 1)
         return w;
-    double edge[2] = {crossing(y, n, lo, half), crossing(y, n, hi + 1, half)};
+    double edge[2] = {dk_samples_crossing(y, n, lo, half),
+                       dk_samples_crossing(y, n, hi + 1, half)};
     for (int e = 0; e < 2; e++) {
         double s0 = (edge[e] - (double)(n / 2)) * dx, s1 = s0 + 0.01 * dx;
         double f0 = AT(s0) - half, f1 = AT(s1) - half;

@@ -45,8 +45,8 @@ dk_db_free(dk_db *db)
     free(db);
 }
 
-static int
-matches(const dk_crystal *c, const char *name)
+int
+dk_crystal_answers_to(const dk_crystal *c, const char *name)
 {
     if (strcasecmp(c->id, name) == 0)
         return 1;
@@ -62,7 +62,7 @@ dk_db_find(const dk_db *db, const char *name)
     if (!db || !name)
         return NULL;
     for (int i = 0; i < db->ncrystals; i++)
-        if (matches(db->crystals[i], name))
+        if (dk_crystal_answers_to(db->crystals[i], name))
             return db->crystals[i];
     return NULL;
 }
@@ -71,10 +71,10 @@ dk_db_find(const dk_db *db, const char *name)
 static const char *
 clash(const dk_crystal *c, const dk_crystal *other)
 {
-    if (matches(other, c->id))
+    if (dk_crystal_answers_to(other, c->id))
         return c->id;
     for (int i = 0; i < c->naliases; i++)
-        if (matches(other, c->aliases[i]))
+        if (dk_crystal_answers_to(other, c->aliases[i]))
             return c->aliases[i];
     return NULL;
 }

@@ -30,18 +30,6 @@
  * folder of DK_DB_MAX_FILES files; the name check is quadratic). */
 #define PATH_MAX_ENTRIES 32
 
-/* 1 when @c answers to @name (its id or one of its aliases). */
-static int
-answers_to(const dk_crystal *c, const char *name)
-{
-    if (strcasecmp(c->id, name) == 0)
-        return 1;
-    for (int i = 0; i < c->naliases; i++)
-        if (strcasecmp(c->aliases[i], name) == 0)
-            return 1;
-    return 0;
-}
-
 /* Append a formatted line to @list; -1 when out of memory. */
 static int
 add_line(char ***list, int *n, const char *fmt, ...)
@@ -140,7 +128,7 @@ merge_later(dk_db *db, dk_crystal *c)
     char p1[160], p2[160];
     for (int i = 0; i < db->ncrystals; i++) {
         const dk_crystal *h = db->crystals[i];
-        if (!answers_to(h, c->id))
+        if (!dk_crystal_answers_to(h, c->id))
             continue;
         int rc = 0;
         if (!same_bytes(h->path, c->path))
@@ -157,7 +145,7 @@ merge_later(dk_db *db, dk_crystal *c)
     for (int j = c->naliases - 1; j >= 0; j--)
         for (int i = 0; i < db->ncrystals; i++) {
             const dk_crystal *h = db->crystals[i];
-            if (!answers_to(h, c->aliases[j]))
+            if (!dk_crystal_answers_to(h, c->aliases[j]))
                 continue;
             if (add_line(&db->notices, &db->nnotices,
                          "the name '%s' means '%s' from '%s', not '%s' "
@@ -314,7 +302,7 @@ dk_db_add_file(dk_db *db, const char *path, const dk_crystal **added,
     char p1[160], p2[160];
     for (int i = db->ncrystals - 1; i >= 0; i--) {
         dk_crystal *h = db->crystals[i];
-        if (answers_to(c, h->id)) {
+        if (dk_crystal_answers_to(c, h->id)) {
             if (!same_bytes(c->path, h->path) &&
                 add_line(&db->notices, &db->nnotices,
                          "'%s' from '%s' is used, not '%s' from '%s' "
@@ -330,7 +318,7 @@ dk_db_add_file(dk_db *db, const char *path, const dk_crystal **added,
             continue;
         }
         for (int j = h->naliases - 1; j >= 0; j--) {
-            if (!answers_to(c, h->aliases[j]))
+            if (!dk_crystal_answers_to(c, h->aliases[j]))
                 continue;
             if (add_line(&db->notices, &db->nnotices,
                          "the name '%s' means '%s' from '%s', not '%s' "
