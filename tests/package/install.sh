@@ -66,6 +66,18 @@ sh tests/package/completion.sh "$prefix/share/bash-completion/completions/deltak
 # (shared and static), run from another folder.
 export PKG_CONFIG_PATH="$prefix/lib/pkgconfig"
 [ "$(pkg-config --modversion deltak)" = "$version" ] && ok || no "pkg-config version"
+# Every installed header compiles alone, and <deltak/deltak.h> names them
+# all.
+hdr_ok=1
+for h in "$prefix"/include/deltak/*.h; do
+    b=$(basename "$h")
+    printf '#include <deltak/%s>\n' "$b" |
+        ${CC:-cc} -std=c17 -Wall -Wextra -Werror $(pkg-config --cflags deltak) \
+            -x c -fsyntax-only - >"$tmp/hdr" 2>&1 || { hdr_ok=0; no "header $b alone" "$tmp/hdr"; }
+    [ "$b" = deltak.h ] || grep -q "^#include \"deltak/$b\"" "$prefix/include/deltak/deltak.h" ||
+        { hdr_ok=0; no "deltak.h lacks $b"; }
+done
+[ "$hdr_ok" = 1 ] && ok
 check c-example-build make -s -C examples/c-api OUT="$tmp" all static
 "$tmp/phase_match" >"$tmp/c.out" 2>"$tmp/err" && ok || no "c-example-run" "$tmp/err"
 ldd "$tmp/phase_match" | grep -q "$prefix/lib/libdeltak.so.0" && ok || no "c-example uses the installed libdeltak.so"
