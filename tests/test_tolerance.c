@@ -201,11 +201,38 @@ ktp_handbook(void **state)
                      DK_EINVAL);
 }
 
+/* Per-length products and frequency widths. A critical width (first-
+ * order estimate within 20 %) scales as 1/L and is quoted × L; a
+ * noncritical one (Δk' = 0, no first-order estimate) as 1/√L, × √L. The
+ * frequency width of 1.0-1.1 um: 299.792458 THz - 272.538598 THz =
+ * 27.253860 THz (c = 299792458 m/s, exact). */
+static void
+per_length_and_thz(void **state)
+{
+    (void)state;
+    dk_acceptance crit = {.fwhm = 2.0, .linear_fwhm = 2.1};
+    dk_acceptance noncrit = {.fwhm = 2.0, .linear_fwhm = INFINITY};
+    dk_acceptance far = {.fwhm = 2.0, .linear_fwhm = 3.0};
+    int root = -1;
+    assert_within(dk_acceptance_per_length(&crit, 4, &root), 8, 0, 1e-15);
+    assert_int_equal(root, 0);
+    assert_within(dk_acceptance_per_length(&noncrit, 4, &root), 4, 0, 1e-15);
+    assert_int_equal(root, 1);
+    assert_within(dk_acceptance_per_length(&far, 4, NULL), 4, 0, 1e-15);
+    assert_true(isnan(dk_acceptance_per_length(&crit, 0, NULL)));
+    assert_true(isnan(dk_acceptance_per_length(&crit, NAN, NULL)));
+    assert_within(dk_interval_thz(1.0, 1.1), 27.253859818, 0, 1e-8);
+    assert_within(dk_interval_thz(1.1, 1.0), 27.253859818, 0, 1e-8);
+    assert_true(isnan(dk_interval_thz(0, 1.0)));
+    assert_true(isnan(dk_interval_thz(1.0, -1)));
+}
+
 int
 main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(mathematics),
+        cmocka_unit_test(per_length_and_thz),
         cmocka_unit_test(bbo_angular_closed_form),
         cmocka_unit_test(spectral_width_from_group_index),
         cmocka_unit_test(length_scaling),

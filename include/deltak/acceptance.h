@@ -96,6 +96,26 @@ dk_status dk_acceptance_fwhm(dk_scalar_fn dk, void *params, double x0,
                              double xmax, dk_acceptance *out, dk_error *err);
 
 /*
+ * dk_acceptance_per_length:
+ * The acceptance as a product with the crystal length, the figure a
+ * crystal is quoted by: FWHM × L for a critical width (the first-order
+ * estimate holds: width ∝ 1/L), FWHM × √L for a noncritical one (Δk' = 0:
+ * width ∝ 1/√L). The exact width counts as critical when its first-order
+ * estimate lies within 20 % of it (common practice). @length_cm > 0;
+ * *@sqrt_law (may be NULL) is set to 1 for the √L product.
+ * Returns: the product (NAN for a bad length or width).
+ */
+double dk_acceptance_per_length(const dk_acceptance *a, double length_cm,
+                                int *sqrt_law);
+
+/*
+ * dk_interval_thz:
+ * The frequency width in THz of the wavelength interval [@lo_um, @hi_um]
+ * (either order): c |1/lo − 1/hi|. NAN unless both are positive.
+ */
+double dk_interval_thz(double lo_um, double hi_um);
+
+/*
  * dk_acceptance_lobes:
  * Every interval of [@xmin, @xmax] in which sinc²(Δk(x) L/2) ≥ ½: the
  * domain is sampled at @nsamples points (≥ 16), each change of side is

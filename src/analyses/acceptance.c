@@ -6,6 +6,7 @@
 #include <stdlib.h>
 
 #include "deltak/acceptance.h"
+#include "deltak/constants.h"
 
 #define GROWTH 1.6       /* outward step growth factor */
 #define MAX_STEPS 200
@@ -288,4 +289,25 @@ dk_acceptance_lobes_scan(dk_scalar_fn dk, void *params, double length_um,
                         central->open_hi);
     }
     return DK_OK;
+}
+
+double
+dk_acceptance_per_length(const dk_acceptance *a, double length_cm,
+                         int *sqrt_law)
+{
+    int root = !(isfinite(a->linear_fwhm) &&
+                 fabs(a->linear_fwhm - a->fwhm) < 0.2 * a->fwhm);
+    if (sqrt_law)
+        *sqrt_law = root;
+    if (!(length_cm > 0) || !isfinite(length_cm) || !(a->fwhm >= 0))
+        return NAN;
+    return a->fwhm * (root ? sqrt(length_cm) : length_cm);
+}
+
+double
+dk_interval_thz(double lo_um, double hi_um)
+{
+    if (!(lo_um > 0) || !(hi_um > 0))
+        return NAN;
+    return DK_C_UM_PER_FS * 1e3 * fabs(1 / lo_um - 1 / hi_um);
 }

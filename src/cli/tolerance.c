@@ -73,15 +73,6 @@ static const item items[] = {
 };
 #define NITEMS (sizeof items / sizeof items[0])
 
-/* Per-length product: ×L for critical, ×√L for noncritical widths. */
-static double
-per_length(const dk_acceptance *a, double length_cm, int *root)
-{
-    *root = !(isfinite(a->linear_fwhm) &&
-              fabs(a->linear_fwhm - a->fwhm) < 0.2 * a->fwhm);
-    return a->fwhm * (*root ? sqrt(length_cm) : length_cm);
-}
-
 static const char *
 curve_xlabel(dk_tol_param p)
 {
@@ -269,8 +260,7 @@ cmd_tolerance(int argc, char **argv)
         thz[i] = NAN;
         if (have[i] == 1 && isfinite(acc[i].fwhm) &&
             (items[i].p == DK_TOL_SIGNAL || items[i].p == DK_TOL_PUMP))
-            thz[i] = DK_C_UM_PER_FS * 1e3 *
-                     fabs(1 / acc[i].lo - 1 / acc[i].hi);
+            thz[i] = dk_interval_thz(acc[i].lo, acc[i].hi);
     }
     if (cm.json) {
         json_object *o = json_object_new_object();
@@ -417,7 +407,7 @@ cmd_tolerance(int argc, char **argv)
             if (have[i] != 1)
                 continue;
             int root;
-            double pl = per_length(&acc[i], lcm, &root);
+            double pl = dk_acceptance_per_length(&acc[i], lcm, &root);
             char extra[160] = "", fq[120] = "";
             if (acc[i].open_lo || acc[i].open_hi)
                 snprintf(extra, sizeof extra, "%s%s%s", flags[0] ? ";" : "",
@@ -473,7 +463,7 @@ cmd_tolerance(int argc, char **argv)
                 continue;
             }
             int root;
-            double pl = per_length(&acc[i], lcm, &root);
+            double pl = dk_acceptance_per_length(&acc[i], lcm, &root);
             char ex[40], li[32], pls[40];
             snprintf(ex, sizeof ex, "%s%.4g %s",
                      acc[i].open_lo || acc[i].open_hi ? "> " : "",
