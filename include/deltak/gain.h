@@ -31,10 +31,7 @@
 
 #include "deltak/status.h"
 
-/* Vacuum permittivity, F/m (CODATA 2018). */
-#define DK_EPS0_F_PER_M 8.8541878128e-12
-/* Reduced Planck constant, J s (exact in the 2019 SI). */
-#define DK_HBAR_J_S 1.054571817e-34
+#include "deltak/constants.h"   /* DK_EPS0_F_PER_M, DK_HBAR_J_S */
 
 /* ---- Plane waves, undepleted pump (src/analyses/gain_parametric.c) ---------- */
 

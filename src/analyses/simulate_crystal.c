@@ -48,7 +48,7 @@ dk_sim_crystal_k(void *ctx, const double *omega_rad_per_fs, size_t n,
     }
     for (size_t i = 0; i < n; i++) {
         double om = omega_rad_per_fs[i];
-        double lam = 2 * M_PI * SIM_C_UM_PER_FS / om;
+        double lam = 2 * M_PI * DK_C_UM_PER_FS / om;
         double idx = NAN;
         unsigned w = 0;
         dk_status st;
@@ -69,7 +69,7 @@ dk_sim_crystal_k(void *ctx, const double *omega_rad_per_fs, size_t n,
                                &w, NULL);
         }
         if (st == DK_OK && isfinite(idx) && idx > 0) {
-            k_rad_per_um[i] = idx * om / SIM_C_UM_PER_FS;
+            k_rad_per_um[i] = idx * om / DK_C_UM_PER_FS;
             c->warnings |= w;
         } else if (st == DK_OK || st == DK_ERANGE || st == DK_EDOM) {
             k_rad_per_um[i] = NAN;

@@ -20,7 +20,6 @@
 #include "analyses/samples_fwhm.h"
 #include "analyses/simulate_internal.h"
 
-#define HBAR_J_S 1.054571817e-34
 #define EDGE_WARN 1e-6
 #define ABSORB_WARN 1e-6
 #define BROAD_WARN 0.25        /* band edge beyond ±25 % of the carrier */
@@ -166,7 +165,7 @@ fill_spectrum(const dk_sim *s, int j, const double complex *spec, double *S)
                SIM_FLUENCE_TO_J_PER_CM2;
         double om = s->omega0[j] + s->omega[k];
         if (om > 0)
-            photons += S[i] * dnu / (HBAR_J_S * om * 1e15);
+            photons += S[i] * dnu / (DK_HBAR_J_S * om * 1e15);
     }
     return photons;
 }
@@ -361,7 +360,7 @@ sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err)
             nu_lo = fmin(nu_lo, w->frequency_thz[lo]);
             nu_hi = fmax(nu_hi, w->frequency_thz[hi]);
         }
-        const double c_um_thz = SIM_C_UM_PER_FS * PER_FS_TO_THZ;
+        const double c_um_thz = DK_C_UM_PER_FS * PER_FS_TO_THZ;
         if (nu_hi > 0 && nu_lo > 0) {
             w->band_um[0] = c_um_thz / nu_hi;
             w->band_um[1] = c_um_thz / nu_lo;

@@ -21,8 +21,6 @@
 
 #include "analyses/simulate_internal.h"
 
-#define EPS0_F_PER_M 8.8541878128e-12
-#define C_M_PER_S 299792458.0
 #define PROBE_REL 1e-3          /* δ / ω0 for the carrier derivatives */
 #define SPECTRAL_MARGIN 1.3     /* grid half-span over the widest band */
 #define WINDOW_MARGIN 1.25
@@ -51,7 +49,7 @@ probe_carrier(dk_sim *s, int j, const dk_sim_wave *w, dk_error *err)
                                 "carrier %.6g um (outside the crystal's data?)",
                                 s->name[j], s->lambda0[j]);
     s->k0[j] = k[2];
-    s->n0[j] = k[2] * SIM_C_UM_PER_FS / s->omega0[j];
+    s->n0[j] = k[2] * DK_C_UM_PER_FS / s->omega0[j];
     s->tau_g[j] = (k[0] - 8 * k[1] + 8 * k[3] - k[4]) / (12 * d);
     s->beta2[j] =
         (-k[0] + 16 * k[1] - 30 * k[2] + 16 * k[3] - k[4]) / (12 * d * d);
@@ -70,10 +68,10 @@ sim_setup_waves(dk_sim *s, const dk_sim_problem *p, dk_error *err)
         for (int j = 0; j < 3; j++)
             s->role[j] = j;
     }
-    double om1 = 2 * M_PI * SIM_C_UM_PER_FS / p->wave[0].lambda_um;
+    double om1 = 2 * M_PI * DK_C_UM_PER_FS / p->wave[0].lambda_um;
     double om2 = p->degenerate
                      ? om1
-                     : 2 * M_PI * SIM_C_UM_PER_FS / p->wave[1].lambda_um;
+                     : 2 * M_PI * DK_C_UM_PER_FS / p->wave[1].lambda_um;
     double om[3] = {om1, om2, om1 + om2};
     for (int j = 0; j < s->nw; j++) {
         int r = s->role[j];
@@ -84,7 +82,7 @@ sim_setup_waves(dk_sim *s, const dk_sim_problem *p, dk_error *err)
         else
             snprintf(s->name[j], sizeof s->name[j], "%s", label[r]);
         s->omega0[j] = om[r];
-        s->lambda0[j] = 2 * M_PI * SIM_C_UM_PER_FS / om[r];
+        s->lambda0[j] = 2 * M_PI * DK_C_UM_PER_FS / om[r];
         dk_status st = probe_carrier(s, j, &p->wave[r], err);
         if (st)
             return st;
@@ -101,8 +99,8 @@ sim_setup_waves(dk_sim *s, const dk_sim_problem *p, dk_error *err)
     double nprod = p->degenerate ? s->n0[0] * s->n0[0] * s->n0[1]
                                  : s->n0[0] * s->n0[1] * s->n0[2];
     double d_si = p->deff_pm_per_v * 1e-12;
-    double scale = sqrt(2 / (EPS0_F_PER_M * C_M_PER_S * C_M_PER_S *
-                             C_M_PER_S * nprod)) *
+    double scale = sqrt(2 / (DK_EPS0_F_PER_M * DK_C_M_PER_S * DK_C_M_PER_S *
+                             DK_C_M_PER_S * nprod)) *
                    sqrt(1e13) * 1e-6;
     for (int j = 0; j < s->nw; j++)
         s->kappa[j] = s->omega0[j] * 1e15 * d_si * scale;

@@ -21,10 +21,10 @@
 #include <complex.h>
 #include <fftw3.h>
 
+#include "deltak/constants.h"
 #include "deltak/simulate.h"
 
 /* c in µm/fs. */
-#define SIM_C_UM_PER_FS 0.299792458
 /* 1 GW/cm² · fs in J/cm². */
 #define SIM_FLUENCE_TO_J_PER_CM2 1e-6
 /* Propagators kept for reuse (distinct step lengths of a run). */

@@ -68,7 +68,7 @@ spec_table_of(const dk_sim_spectrum *sp, spec_table *t, dk_error *err)
         double s = sp->intensity[src];
         if (!sp->per_frequency)
             s *= lam * lam;
-        t->omega[i] = 2 * M_PI * SIM_C_UM_PER_FS / lam;
+        t->omega[i] = 2 * M_PI * DK_C_UM_PER_FS / lam;
         t->amp[i] = sqrt(s);
         t->phase[i] = sp->phase_rad ? sp->phase_rad[src] : 0;
     }
@@ -108,7 +108,7 @@ sim_input_band(const dk_sim *s, int j, const dk_sim_pulse *in)
         double w = 0;
         for (size_t i = 0; i < in->spectrum.n; i++)
             if (in->spectrum.intensity[i] > 0) {
-                double om = 2 * M_PI * SIM_C_UM_PER_FS /
+                double om = 2 * M_PI * DK_C_UM_PER_FS /
                             in->spectrum.wavelength_um[i];
                 w = fmax(w, fabs(om - s->omega0[j]));
             }
@@ -135,15 +135,15 @@ sim_input_extent(const dk_sim_pulse *in, double band)
     case DK_SIM_SPECTRUM: {
         /* A first guess; the build-and-check loop enlarges it. */
         const dk_sim_spectrum *sp = &in->spectrum;
-        double om0 = 2 * M_PI * SIM_C_UM_PER_FS / sp->wavelength_um[0];
-        double om1 = 2 * M_PI * SIM_C_UM_PER_FS / sp->wavelength_um[sp->n - 1];
+        double om0 = 2 * M_PI * DK_C_UM_PER_FS / sp->wavelength_um[0];
+        double om1 = 2 * M_PI * DK_C_UM_PER_FS / sp->wavelength_um[sp->n - 1];
         double span = fabs(om1 - om0);
         double gd = 0;
         if (sp->phase_rad)
             for (size_t i = 1; i < sp->n; i++) {
-                double a = 2 * M_PI * SIM_C_UM_PER_FS / sp->wavelength_um[i];
+                double a = 2 * M_PI * DK_C_UM_PER_FS / sp->wavelength_um[i];
                 double b =
-                    2 * M_PI * SIM_C_UM_PER_FS / sp->wavelength_um[i - 1];
+                    2 * M_PI * DK_C_UM_PER_FS / sp->wavelength_um[i - 1];
                 gd = fmax(gd, fabs((sp->phase_rad[i] - sp->phase_rad[i - 1]) /
                                    (a - b)));
             }

@@ -7,6 +7,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "deltak/constants.h"
 #include "cli.h"
 #include "pulse_spec.h"
 #include "deltak/bandwidth.h"
@@ -120,9 +121,10 @@ parse_width(const char *text, double lambda_um, double *thz, dk_error *err)
         if (u[i].scale == -1)
             *thz = v;
         else if (u[i].scale == -2)
-            *thz = v * 0.0299792458;   /* c in cm/ps */
+            *thz = v * DK_C_M_PER_S * 1e-10;   /* c in cm/ps */
         else
-            *thz = 299.792458 * v * u[i].scale / (lambda_um * lambda_um);
+            *thz = DK_C_UM_PER_FS * 1e3 * v * u[i].scale /
+                   (lambda_um * lambda_um);
         return DK_OK;
     }
     return dk_error_set(err, DK_EINVAL, "'%s' is not a spectral width, e.g. "

@@ -1,13 +1,12 @@
 /*
- * roots.c - bracket by scanning, refine with Brent (see deltak/roots.h).
+ * roots.c - one root in a bracket, refined with Brent (see deltak/roots.h);
+ * every root of an interval is in roots_sampled.c.
  */
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_roots.h>
 #include <math.h>
-#include <stdlib.h>
 
 #include "core/gsl_guard.h"
-#include "roots_sampled.h"
 
 #include "deltak/roots.h"
 
@@ -65,34 +64,6 @@ dk_root_bracketed_impl(dk_scalar_fn f, void *params, double lo, double hi,
                                              "in [%g, %g]", lo, hi);
     *root = x;
     return DK_OK;
-}
-
-dk_status
-dk_roots_all(dk_scalar_fn f, void *params, double lo, double hi, int nscan,
-             double xtol, double *roots, int maxroots, int *nroots,
-             dk_error *err)
-{
-    *nroots = 0;
-    if (!(lo < hi) || !isfinite(lo) || !isfinite(hi) || nscan < 1 ||
-        nscan > DK_ROOTS_MAX_SCAN || !(xtol > 0))
-        return dk_error_set(err, DK_EINVAL,
-                            "bad search interval [%g, %g], grid of %d or "
-                            "tolerance",
-                            lo, hi, nscan);
-    /* Sample the grid, then bracket: one loop for every caller
-     * (roots_sampled.c), whether it samples here or in a batch. */
-    double stack[1025], *v = nscan < 1025 ? stack
-                                          : malloc(((size_t)nscan + 1) *
-                                                   sizeof *v);
-    if (!v)
-        return dk_error_set(err, DK_ENOMEM, "out of memory");
-    for (int i = 0; i <= nscan; i++)
-        v[i] = f(dk_scan_node(lo, hi, nscan, i), params);
-    dk_status s = dk_roots_sampled(f, params, lo, hi, nscan, v, xtol, roots,
-                                   maxroots, nroots, err);
-    if (v != stack)
-        free(v);
-    return s;
 }
 
 /* The entry point: GSL's aborting handler off for the call. */
