@@ -15,7 +15,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 #include "deltak/broadband.h"
 
 #define SIGNIFICANT 1e-7   /* of the peak spectral amplitude */

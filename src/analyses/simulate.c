@@ -16,7 +16,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 
 #define MAX_LENGTH_MM 1000.0
 #define LAMBDA_RTOL 1e-9

@@ -12,7 +12,7 @@
  */
 #include <math.h>
 
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 #include "deltak/material.h"
 #include "deltak/modes.h"
 

@@ -18,7 +18,7 @@
 #include <string.h>
 
 #include "analyses/samples_fwhm.h"
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 
 #define EDGE_WARN 1e-6
 #define ABSORB_WARN 1e-6

@@ -19,7 +19,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 
 #define PROBE_REL 1e-3          /* δ / ω0 for the carrier derivatives */
 #define SPECTRAL_MARGIN 1.3     /* grid half-span over the widest band */
@@ -135,16 +135,6 @@ sim_setup_waves(dk_sim *s, const dk_sim_problem *p, dk_error *err)
 }
 
 /* ---- the grid ---------------------------------------------------------- */
-
-double
-sim_fluence(const double complex *a, size_t n, double dt)
-{
-    double sum = 0;
-    const double *x = (const double *)a;
-    for (size_t i = 0; i < 2 * n; i++)
-        sum += x[i] * x[i];
-    return sum * dt;
-}
 
 static void
 free_grid_arrays(dk_sim *s)

@@ -23,7 +23,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 
 #define GAUSS_SPAN 3.5          /* W = 3.5 × 4 ln2/τ */
 #define SECH_SPAN 19.0          /* W = 19/τ */

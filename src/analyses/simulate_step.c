@@ -31,7 +31,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "analyses/simulate_internal.h"
+#include "analyses/sim_state.h"
 
 #define SKIP_BLOCK 64
 #define MAX_STEPS 100000000L

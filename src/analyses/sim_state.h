@@ -1,5 +1,5 @@
 /*
- * simulate_internal.h - the state of one pulsed three-wave-mixing
+ * sim_state.h - the state of one pulsed three-wave-mixing
  * simulation, shared by the files of the engine (deltak/simulate.h):
  *   simulate.c         validation, dk_sim_new/free, dk_sim_run and the
  *                      convergence check;
@@ -15,8 +15,8 @@
  * Fields are stored wave after wave, each in FFT order (index 0 is τ = 0
  * or Ω = 0), so that one FFTW plan transforms all of them.
  */
-#ifndef DK_SIMULATE_INTERNAL_H
-#define DK_SIMULATE_INTERNAL_H
+#ifndef DK_SIM_STATE_H
+#define DK_SIM_STATE_H
 
 #include <complex.h>
 #include <fftw3.h>
@@ -108,7 +108,18 @@ dk_status sim_setup_waves(dk_sim *s, const dk_sim_problem *p, dk_error *err);
 dk_status sim_setup_grid(dk_sim *s, const dk_sim_problem *p,
                          const dk_sim_options *opt, dk_error *err);
 void sim_choose_step(dk_sim *s);
-double sim_fluence(const double complex *a, size_t n, double dt);
+
+/* dt Σ |a|²: the fluence of a field sampled at spacing dt (the pulses
+ * and every step of the run use it). */
+static inline double
+sim_fluence(const double complex *a, size_t n, double dt)
+{
+    double sum = 0;
+    const double *x = (const double *)a;
+    for (size_t i = 0; i < 2 * n; i++)
+        sum += x[i] * x[i];
+    return sum * dt;
+}
 
 /* simulate_pulse.c */
 int sim_pulsed(const dk_sim_pulse *in);
@@ -124,4 +135,4 @@ void sim_release_cache(dk_sim *s);
 /* simulate_diag.c */
 dk_status sim_fill_result(dk_sim *s, dk_sim_result *r, dk_error *err);
 
-#endif /* DK_SIMULATE_INTERNAL_H */
+#endif /* DK_SIM_STATE_H */
