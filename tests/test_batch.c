@@ -189,6 +189,32 @@ load_for_one_crystal(void **state)
     dk_db_free(all);
 }
 
+/* Several names: those crystals alone, in the order named, a crystal
+ * named twice (id and alias) once; one unknown name loads everything. */
+static void
+load_names(void **state)
+{
+    (void)state;
+    const char *names[] = {"LBO", "bbo", "beta-BaB2O4", "GaSe"};
+    dk_db *got = NULL;
+    assert_int_equal(dk_db_load_names(DK_CRYSTAL_DIR, names, 4, &got, NULL),
+                     DK_OK);
+    assert_int_equal(got->ncrystals, 3);
+    assert_ptr_equal(dk_db_find(got, "LBO"), got->crystals[0]);
+    assert_ptr_equal(dk_db_find(got, "BBO"), got->crystals[1]);
+    assert_ptr_equal(dk_db_find(got, "GaSe"), got->crystals[2]);
+    for (int k = 0; k < 3; k++)
+        assert_string_equal(got->crystals[k]->path,
+                            dk_db_find(db, got->crystals[k]->id)->path);
+    dk_db_free(got);
+    const char *some_unknown[] = {"LBO", "unobtainium"};
+    assert_int_equal(dk_db_load_names(DK_CRYSTAL_DIR, some_unknown, 2, &got,
+                                      NULL),
+                     DK_OK);
+    assert_int_equal(got->ncrystals, db->ncrystals);
+    dk_db_free(got);
+}
+
 /* Copy @src to @dir/@name with line @from replaced by @to (NULL: as is). */
 static void
 copy_with(const char *src, const char *dir, const char *name,
@@ -247,6 +273,7 @@ main(void)
         cmocka_unit_test(value_modes_match),
         cmocka_unit_test(load_for_one_crystal),
         cmocka_unit_test(load_for_falls_back),
+        cmocka_unit_test(load_names),
     };
     return cmocka_run_group_tests_name("batch", tests, db_setup, db_teardown);
 }

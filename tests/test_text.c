@@ -8,6 +8,7 @@
  */
 #include "testutil.h"
 
+#include "deltak/notes.h"
 #include "deltak/text.h"
 
 static void
@@ -126,6 +127,31 @@ numbers_against_a_range(void **state)
                         "100000.5");
 }
 
+/* The CSV flag column: codes of the chosen kinds, each once, separated by
+ * ';'; a code that does not fit is left out whole. */
+static void
+flag_codes(void **state)
+{
+    (void)state;
+    dk_notes n;
+    dk_notes_clear(&n);
+    dk_notes_add(&n, DK_NOTE_DEFAULT, "default-set", "set A");
+    dk_notes_add(&n, DK_NOTE_WARNING, "range", "outside");
+    dk_notes_add(&n, DK_NOTE_DEFAULT, "default-set", "another text");
+    dk_notes_add(&n, DK_NOTE_MEMORY, "memory-d", "d from memory");
+    const unsigned mask = 1u << DK_NOTE_DEFAULT | 1u << DK_NOTE_MEMORY;
+    char b[64];
+    assert_int_equal(dk_notes_codes(&n, mask, b, sizeof b), 20);
+    assert_string_equal(b, "default-set;memory-d");
+    /* room for the first code only: the second is not cut in half */
+    char s[16];
+    assert_int_equal(dk_notes_codes(&n, mask, s, sizeof s), 11);
+    assert_string_equal(s, "default-set");
+    assert_int_equal(dk_notes_codes(&n, 1u << DK_NOTE_CAUTION, b, sizeof b),
+                     0);
+    assert_string_equal(b, "");
+}
+
 int
 main(void)
 {
@@ -135,6 +161,7 @@ main(void)
         cmocka_unit_test(clean_text),
         cmocka_unit_test(exact_numbers),
         cmocka_unit_test(numbers_against_a_range),
+        cmocka_unit_test(flag_codes),
     };
     return cmocka_run_group_tests_name("text", tests, NULL, NULL);
 }

@@ -10,6 +10,7 @@
 #include "deltak/group.h"
 #include "deltak/material.h"
 #include "deltak/tolerance.h"
+#include "design/design_fast.h"
 
 #define DEG (M_PI / 180)
 #define U2 (2 * DK_SINC2_HALF_U)   /* 2.78311: |Δk| L at half maximum */
@@ -227,6 +228,71 @@ per_length_and_thz(void **state)
     assert_true(isnan(dk_interval_thz(1.0, -1)));
 }
 
+/* The compiled evaluator the acceptance searches use (design_fast.h)
+ * gives the bits of dk_design_delta_k() along every parameter it serves:
+ * uniaxial, biaxial off the principal axes, noncollinear and QPM designs,
+ * at the operating point and away from it (a change of arithmetic in one
+ * path and not the other fails here). */
+static void
+compiled_design_same_bits(void **state)
+{
+    (void)state;
+    dk_design *d[4];
+    d[0] = angle_design(0, "BBO", "Tamosauskas2018", 1.064, "ooe", 25, 5);
+    d[1] = angle_design(1, "KTP", "KatoTakaoka2002", 1.064, "sff", 40, 5);
+    d[2] = qpm_design(2, "MgO:LN", 1.55, 120, 10);
+    dk_design_request rq;
+    dk_design_request_init(&rq);
+    rq.crystal = dk_db_find(db, "BBO");
+    rq.waves = (dk_waves){.pump_um = 0.4, .signal_um = 0.65};
+    rq.waves.idler_um = dk_third_wave_um(0.4, 0.65);
+    rq.temp_c = 25;
+    rq.pol = "ooe";
+    rq.scheme = DK_SCHEME_ANGLE;
+    rq.alpha_rad = 3.7 * DEG;
+    rq.length_mm = 2;
+    d[3] = &pool[3];
+    dk_error err = {0};
+    if (dk_design_resolve(&rq, d[3], &err))
+        fail_msg("%s", err.msg);
+    const dk_tol_param ps[] = {DK_TOL_TEMPERATURE, DK_TOL_SIGNAL,
+                               DK_TOL_PUMP, DK_TOL_THETA, DK_TOL_PHI};
+    const double rel[] = {-0.3, -0.01, 0, 1e-4, 0.02};
+    int compared = 0;
+    for (int k = 0; k < 4; k++)
+        for (size_t j = 0; j < sizeof ps / sizeof ps[0]; j++) {
+            if (!dk_design_applies(d[k], ps[j]))
+                continue;
+            double x0 = dk_design_operating_value(d[k], ps[j]);
+            for (size_t r = 0; r < sizeof rel / sizeof rel[0]; r++) {
+                double x = ps[j] == DK_TOL_TEMPERATURE ? x0 + 100 * rel[r]
+                                                       : x0 * (1 + rel[r]);
+                double t = ps[j] == DK_TOL_TEMPERATURE ? x : d[k]->temp_c;
+                dk_design_fast f;
+                dk_design_fast_init(&f, d[k], t);
+                assert_true(f.ready);
+                dk_waves w = d[k]->waves;
+                if (ps[j] == DK_TOL_SIGNAL)
+                    w = d[k]->shg ? dk_waves_shg(x) : w, w.signal_um = x;
+                if (ps[j] == DK_TOL_PUMP)
+                    w.pump_um = x;
+                if (!d[k]->shg)
+                    w.idler_um = dk_third_wave_um(w.pump_um, w.signal_um);
+                double fast = dk_design_fast_dk(
+                    &f, &w, ps[j] == DK_TOL_THETA ? x : d[k]->theta_rad,
+                    ps[j] == DK_TOL_PHI ? x : d[k]->phi_rad);
+                double slow = dk_design_delta_k(d[k], ps[j], x);
+                if (memcmp(&fast, &slow, sizeof fast) != 0)
+                    fail_msg("design %d, parameter %d at %.9g: compiled "
+                             "%.17g, general %.17g",
+                             k, (int)ps[j], x, fast, slow);
+                assert_true(isfinite(fast));
+                compared++;
+            }
+        }
+    assert_true(compared >= 50);
+}
+
 int
 main(void)
 {
@@ -237,6 +303,7 @@ main(void)
         cmocka_unit_test(spectral_width_from_group_index),
         cmocka_unit_test(length_scaling),
         cmocka_unit_test(ktp_handbook),
+        cmocka_unit_test(compiled_design_same_bits),
     };
     return cmocka_run_group_tests_name("tolerance", tests, db_setup, db_teardown);
 }

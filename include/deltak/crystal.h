@@ -174,6 +174,16 @@ dk_status dk_db_load(const char *dir, dk_db **out, dk_error *err);
 dk_status dk_db_load_for(const char *dir, const char *name, dk_db **out,
                          dk_error *err);
 
+/*
+ * dk_db_load_names:
+ * As dk_db_load_for() for @n names (ids or aliases; two names of one
+ * crystal load it once): when the scan tells the file of every name,
+ * only those files are parsed, in the order of @names; in every other
+ * case (@n = 0 included) the whole folder is loaded as by dk_db_load().
+ */
+dk_status dk_db_load_names(const char *dir, const char *const *names, int n,
+                           dk_db **out, dk_error *err);
+
 /* Free @db and its crystals; NULL does nothing. */
 void dk_db_free(dk_db *db);
 

@@ -13,6 +13,7 @@
 #include "deltak/constants.h"
 #include "deltak/design_sim.h"
 #include "deltak/tolerance.h"
+#include "design/design_fast.h"
 
 #define C_UM_THZ 299.792458     /* c in µm·THz */
 #define LOBE_SAMPLES 4001
@@ -93,11 +94,13 @@ dk_at_waves(dk_design *d, const dk_waves *w)
     return r;
 }
 
-double
-dk_design_pair_delta_k(dk_design *d, dk_pair p, double delta_thz)
+/* The waves of @d with pair @p detuned by @delta_thz; 0 when a frequency
+ * is not positive or the pair does not apply. */
+static int
+pair_waves(const dk_design *d, dk_pair p, double delta_thz, dk_waves *w)
 {
     if (!dk_pair_applies(d, p) || !isfinite(delta_thz))
-        return NAN;
+        return 0;
     double m[3];
     pair_steps(d, p, m);
     const double lam[3] = {d->waves.signal_um, d->waves.idler_um,
@@ -106,10 +109,20 @@ dk_design_pair_delta_k(dk_design *d, dk_pair p, double delta_thz)
     for (int j = 0; j < 3; j++) {
         nu[j] = C_UM_THZ / lam[j] + m[j] * delta_thz;
         if (!(nu[j] > 0))
-            return NAN;
+            return 0;
     }
-    dk_waves w = {.signal_um = C_UM_THZ / nu[0], .idler_um = C_UM_THZ / nu[1],
-                  .pump_um = C_UM_THZ / nu[2]};
+    *w = (dk_waves){.signal_um = C_UM_THZ / nu[0],
+                    .idler_um = C_UM_THZ / nu[1],
+                    .pump_um = C_UM_THZ / nu[2]};
+    return 1;
+}
+
+double
+dk_design_pair_delta_k(dk_design *d, dk_pair p, double delta_thz)
+{
+    dk_waves w;
+    if (!pair_waves(d, p, delta_thz, &w))
+        return NAN;
     return dk_at_waves(d, &w);
 }
 
@@ -138,16 +151,30 @@ pair_domain(const dk_design *d, dk_pair p, double *lo, double *hi)
     *hi = fmax(*hi - 1e-9 * span, 0);
 }
 
+/* The pair's Δk for the root finders and scans, the dispersion compiled
+ * once (design_fast.h: the same bits as dk_design_pair_delta_k()). */
 typedef struct pair_probe {
     dk_design *d;
     dk_pair p;
+    dk_design_fast f;
 } pair_probe;
+
+static void
+pair_probe_init(pair_probe *pr, dk_design *d, dk_pair p)
+{
+    pr->d = d;
+    pr->p = p;
+    dk_design_fast_init(&pr->f, d, d->temp_c);
+}
 
 static double
 pair_dk(double x, void *pp)
 {
     pair_probe *pr = pp;
-    return dk_design_pair_delta_k(pr->d, pr->p, x);
+    dk_waves w;
+    if (!pr->f.ready || !pair_waves(pr->d, pr->p, x, &w))
+        return dk_design_pair_delta_k(pr->d, pr->p, x);
+    return dk_design_fast_dk(&pr->f, &w, pr->d->theta_rad, pr->d->phi_rad);
 }
 
 dk_status
@@ -163,7 +190,8 @@ dk_design_pair_acceptance(dk_design *d, dk_pair p, dk_acceptance *acc,
                                             "crystal length (--length)");
     double lo, hi;
     pair_domain(d, p, &lo, &hi);
-    pair_probe pr = {d, p};
+    pair_probe pr;
+    pair_probe_init(&pr, d, p);
     double step = 1e-5 * C_UM_THZ / d->waves.pump_um;
     dk_status s = dk_acceptance_fwhm(pair_dk, &pr, 0, d->length_mm * 1e3,
                                      step, lo, hi, acc, err);

@@ -14,6 +14,7 @@
 
 #include "deltak/material.h"
 #include "deltak/tolerance.h"
+#include "design/design_fast.h"
 
 int
 dk_design_applies(const dk_design *d, dk_tol_param p)
@@ -100,16 +101,49 @@ dk_design_delta_k(dk_design *d, dk_tol_param p, double x)
     return r;
 }
 
+/* Δk of a design along one parameter, for the root finders and scans:
+ * the dispersion compiled once at the operating temperature (or once per
+ * temperature when the temperature is the parameter) instead of at every
+ * call (design_fast.h: the same bits as dk_design_delta_k()). The QPM
+ * period and tilt move the grating and take the general path. */
 typedef struct probe {
     dk_design *d;
     dk_tol_param p;
+    int fast;
+    dk_design_fast f;
 } probe;
+
+static void
+probe_init(probe *pr, dk_design *d, dk_tol_param p)
+{
+    pr->d = d;
+    pr->p = p;
+    pr->fast = dk_design_applies(d, p) && p != DK_TOL_PERIOD &&
+               p != DK_TOL_TILT;
+    if (pr->fast && p != DK_TOL_TEMPERATURE) {
+        dk_design_fast_init(&pr->f, d, d->temp_c);
+        pr->fast = pr->f.ready;
+    }
+}
 
 static double
 dk_at(double x, void *pp)
 {
     probe *pr = pp;
-    return dk_design_delta_k(pr->d, pr->p, x);
+    const dk_design *d = pr->d;
+    if (!pr->fast)
+        return dk_design_delta_k(pr->d, pr->p, x);
+    if (pr->p == DK_TOL_TEMPERATURE) {
+        dk_design_fast_init(&pr->f, d, x);
+        if (!pr->f.ready)
+            return dk_design_delta_k(pr->d, pr->p, x);
+    }
+    dk_waves w = moved_waves(d, pr->p, x);
+    if (!isfinite(w.idler_um))
+        return NAN;
+    return dk_design_fast_dk(&pr->f, &w,
+                             pr->p == DK_TOL_THETA ? x : d->theta_rad,
+                             pr->p == DK_TOL_PHI ? x : d->phi_rad);
 }
 
 /* The whole domain of parameter @p: where the outward search may go and
@@ -182,7 +216,8 @@ dk_design_tolerance(dk_design *d, dk_tol_param p, dk_acceptance *out,
     double x0 = dk_design_operating_value(d, p);
     double step, lo, hi;
     domain_of(d, p, x0, &step, &lo, &hi);
-    probe pr = {d, p};
+    probe pr;
+    probe_init(&pr, d, p);
     dk_status s = dk_acceptance_fwhm(dk_at, &pr, x0, d->length_mm * 1e3, step,
                                      lo, hi, out, err);
     if (s)
@@ -206,7 +241,8 @@ dk_design_acceptance_lobes(dk_design *d, dk_tol_param p, dk_acceptance *acc,
     domain_of(d, p, x0, &step, &lo, &hi);
     if (domain)
         domain[0] = lo, domain[1] = hi;
-    probe pr = {d, p};
+    probe pr;
+    probe_init(&pr, d, p);
     return dk_acceptance_lobes_scan(dk_at, &pr, d->length_mm * 1e3, lo, hi,
                                     LOBE_SAMPLES, acc, lobes, err);
 }
@@ -235,9 +271,11 @@ dk_design_acceptance_curve(dk_design *d, dk_tol_param p, double span_fwhm,
     double c = 0.5 * (a + b), w = b - a;
     double x0 = fmax(dom[0], c - span_fwhm * w),
            x1 = fmin(dom[1], c + span_fwhm * w);
+    probe pr;
+    probe_init(&pr, d, p);
     for (int k = 0; k < n; k++) {
         x[k] = x0 + (x1 - x0) * k / (n - 1);
-        double dk = dk_design_delta_k(d, p, x[k]);
+        double dk = dk_at(x[k], &pr);
         sinc2[k] = isfinite(dk) ? dk_sinc2(dk, d->length_mm * 1e3) : NAN;
     }
     return DK_OK;

@@ -289,6 +289,12 @@ names_a_file(const char *name)
 int
 cli_load_db(dk_db **db, const char *name)
 {
+    return cli_load_db_names(db, &name, name ? 1 : 0);
+}
+
+int
+cli_load_db_names(dk_db **db, const char *const *names, int nnames)
+{
     /* The search path: $DELTAK_CRYSTALS (colon-separated folders and
      * files, first wins), then the shipped database. */
     const char *env = getenv("DELTAK_CRYSTALS");
@@ -309,12 +315,14 @@ cli_load_db(dk_db **db, const char *name)
         paths[k++] = t;
     paths[k++] = dk_db_shipped_dir();
     dk_error err = {0};
-    /* The shipped database alone: only the crystal asked for is read
-     * when its file can be told from the others (dk_db_load_for); with
+    /* The shipped database alone: only the crystals asked for are read
+     * when their files can be told from the others (dk_db_load_names); with
      * folders of the user's, every file (they may replace shipped ones). */
-    dk_status st = k == 1 && name && !names_a_file(name)
-                       ? dk_db_load_for(paths[0], name, db, &err)
-                       : dk_db_load_path(paths, k, db, &err);
+    int plain = k == 1 && nnames > 0;
+    for (int i = 0; i < nnames && plain; i++)
+        plain = !names_a_file(names[i]);
+    dk_status st = plain ? dk_db_load_names(paths[0], names, nnames, db, &err)
+                         : dk_db_load_path(paths, k, db, &err);
     free(paths);
     free(copy);
     if (st)

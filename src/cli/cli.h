@@ -146,6 +146,10 @@ void cli_warn_index(const dk_dispersion_set *set, unsigned flags,
  */
 int cli_load_db(dk_db **db, const char *name);
 
+/* The same for @n names (dk_db_load_names): the files of those crystals
+ * alone when the files show which they are, else every file. */
+int cli_load_db_names(dk_db **db, const char *const *names, int n);
+
 /*
  * Find @name (an id or alias, or a path to a crystal file: containing
  * '/' or ending in .yaml, loaded into @db ahead of everything else) or

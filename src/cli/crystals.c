@@ -383,9 +383,9 @@ cmd_crystals(int argc, char **argv)
         return cli_usage_error(crystals_usage, "choose one of --json and "
                                                "--names");
     dk_db *db = NULL;
-    if (cli_load_db(&db, NULL))
-        return CLI_FAIL;
     const char *name = npos ? pos[0] : NULL;
+    if (cli_load_db(&db, name))
+        return CLI_FAIL;
     const dk_crystal *c = NULL;
     if (name && !(c = cli_find_crystal(db, name))) {
         dk_db_free(db);

@@ -106,14 +106,23 @@ rank_candidates(const cli_common *cm, const cli_design_args *da,
                 const char *list, double tau, dk_pulse_shape shape,
                 int json, const char *const usage[])
 {
-    dk_db *db;
-    if (cli_load_db(&db, NULL))
-        return CLI_FAIL;
     enum { MAXC = 24 };
+    char buf[1024], names_buf[1024];
+    snprintf(buf, sizeof buf, "%s,%s", cm->crystal, list);
+    /* the named crystals alone (a name the files do not show, or more
+     * names than allowed, loads every file: the errors below then come
+     * out as before) */
+    const char *names[MAXC + 1];
+    int nn = 0;
+    snprintf(names_buf, sizeof names_buf, "%s", buf);
+    for (char *sp = names_buf, *tok; (tok = strsep(&sp, ","));)
+        if (*tok && nn <= MAXC)
+            names[nn++] = tok;
+    dk_db *db;
+    if (cli_load_db_names(&db, names, nn > MAXC ? 0 : nn))
+        return CLI_FAIL;
     candidate cand[MAXC];
     int nc = 0, rc = CLI_FAIL;
-    char buf[1024];
-    snprintf(buf, sizeof buf, "%s,%s", cm->crystal, list);
     for (char *sp = buf, *tok; (tok = strsep(&sp, ","));) {
         if (!*tok)
             continue;

@@ -103,13 +103,14 @@ dk_notes_codes(const dk_notes *notes, unsigned kind_mask, char *buf,
                   strcmp(notes->item[j].code, nt->code) == 0;
         if (dup)
             continue;
-        int w = snprintf(buf + used, n - used, "%s%s", used ? ";" : "",
-                         nt->code);
-        if (w < 0 || (size_t)w >= n - used) {
-            buf[used] = '\0';
+        /* appended by hand: called once per CSV row, snprintf dominated */
+        size_t len = strlen(nt->code), sep = used ? 1 : 0;
+        if (sep + len >= n - used)
             break;
-        }
-        used += (size_t)w;
+        if (sep)
+            buf[used] = ';';
+        memcpy(buf + used + sep, nt->code, len + 1);
+        used += sep + len;
     }
     return used;
 }

@@ -1,12 +1,12 @@
 /*
- * crystal_index.c - load only the crystal a command names (see
- * dk_db_load_for in deltak/crystal.h).
+ * crystal_index.c - load only the crystals a command names (see
+ * dk_db_load_for and dk_db_load_names in deltak/crystal.h).
  *
  * Parsing every crystal file with libyaml costs far more than a command's
- * computation, and a command needs one crystal. Each file's names are read
- * from its top-level `id:` and `aliases: [...]` lines by a plain text scan
- * (no YAML parsing); only the file answering to the name is then loaded
- * with dk_crystal_load(). Whenever the scan is not conclusive - a file
+ * computation, and a command needs one crystal (a few to compare). Each
+ * file's names are read from its top-level `id:` and `aliases: [...]`
+ * lines by a plain text scan (no YAML parsing); only the files answering
+ * to the names are then loaded with dk_crystal_load(). Whenever the scan is not conclusive - a file
  * whose names are written in another form, or that is not a regular
  * file, a name claimed by two files, no file answering, more files than
  * dk_db_load() reads, the chosen file failing to load or naming itself
@@ -175,9 +175,10 @@ same_names(const dk_crystal *c, const quick *q)
     return 1;
 }
 
-/* The one file answering to @name, or -1 when the scan cannot tell. */
+/* Scan the names of every file of @dir into @qs; -1 when the scan cannot
+ * tell the files apart (see the top of this file). */
 static int
-pick(const char *dir, const char *name, quick *qs, int *nq)
+scan_dir(const char *dir, quick *qs, int *nq)
 {
     DIR *d = opendir(dir);
     if (!d)
@@ -207,45 +208,82 @@ pick(const char *dir, const char *name, quick *qs, int *nq)
     *nq = n;
     /* A name claimed twice makes which file wins a matter for the full
      * load's rules. */
-    int found = -1;
-    for (int i = 0; i < n; i++) {
+    for (int i = 0; i < n; i++)
         for (int k = 0; k < qs[i].n; k++)
             for (int j = i + 1; j < n; j++)
                 if (answers(&qs[j], qs[i].names[k]))
                     return -1;
+    return 0;
+}
+
+/* The file answering to @name among @nq scanned files, or -1. */
+static int
+find(const quick *qs, int nq, const char *name)
+{
+    for (int i = 0; i < nq; i++)
         if (answers(&qs[i], name))
-            found = i;
+            return i;
+    return -1;
+}
+
+/* Load the files answering to @names alone into a new database; 0 when
+ * the scan is not conclusive for one of them or a file fails to load. */
+static dk_db *
+load_picked(const char *dir, const char *const *names, int n, quick *qs,
+            int nq)
+{
+    int *files = malloc((size_t)n * sizeof *files);
+    dk_db *db = calloc(1, sizeof *db);
+    if (db)
+        db->crystals = calloc((size_t)n, sizeof *db->crystals);
+    int ok = files && db && db->crystals;
+    int nf = 0;
+    for (int k = 0; ok && k < n; k++) {
+        int i = find(qs, nq, names[k]);
+        ok = i >= 0;
+        int seen = 0;   /* two names of one crystal: loaded once */
+        for (int j = 0; j < nf && ok; j++)
+            seen |= files[j] == i;
+        if (!ok || seen)
+            continue;
+        char path[4096];
+        snprintf(path, sizeof path, "%s/%s", dir, qs[i].file);
+        dk_crystal *c = NULL;
+        ok = dk_crystal_load(path, &c, NULL) == DK_OK && same_names(c, &qs[i]);
+        if (ok)
+            db->crystals[db->ncrystals++] = c, files[nf++] = i;
+        else
+            dk_crystal_free(c);
     }
-    return found;
+    free(files);
+    if (ok)
+        return db;
+    dk_db_free(db);
+    return NULL;
+}
+
+dk_status
+dk_db_load_names(const char *dir, const char *const *names, int n,
+                 dk_db **out, dk_error *err)
+{
+    if (!names || n <= 0 || n > MAX_FILES)
+        return dk_db_load(dir, out, err);
+    quick *qs = malloc(MAX_FILES * sizeof *qs);
+    int nq = 0;
+    dk_db *db = qs && scan_dir(dir, qs, &nq) == 0
+                    ? load_picked(dir, names, n, qs, nq)
+                    : NULL;
+    free(qs);
+    if (db) {
+        *out = db;
+        return DK_OK;
+    }
+    return dk_db_load(dir, out, err);
 }
 
 dk_status
 dk_db_load_for(const char *dir, const char *name, dk_db **out,
                dk_error *err)
 {
-    if (!name)
-        return dk_db_load(dir, out, err);
-    quick *qs = malloc(MAX_FILES * sizeof *qs);
-    int nq = 0;
-    int i = qs ? pick(dir, name, qs, &nq) : -1;
-    if (i >= 0) {
-        char path[4096];
-        snprintf(path, sizeof path, "%s/%s", dir, qs[i].file);
-        dk_crystal *c = NULL;
-        dk_db *db = calloc(1, sizeof *db);
-        if (db)
-            db->crystals = calloc(1, sizeof *db->crystals);
-        if (db && db->crystals && dk_crystal_load(path, &c, NULL) == DK_OK &&
-            same_names(c, &qs[i])) {
-            db->crystals[0] = c;
-            db->ncrystals = 1;
-            free(qs);
-            *out = db;
-            return DK_OK;
-        }
-        dk_crystal_free(c);
-        dk_db_free(db);
-    }
-    free(qs);
-    return dk_db_load(dir, out, err);
+    return dk_db_load_names(dir, &name, name ? 1 : 0, out, err);
 }

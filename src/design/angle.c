@@ -338,6 +338,10 @@ dk_angle_fast_init(const dk_angle_problem *pb, const char pol[3],
     memcpy(f->pol, pol, 3);
     f->pol[3] = '\0';
     for (int i = 0; i < 3; i++) {
+        if (c->optical_class == DK_UNIAXIAL && i == 1) {
+            f->ax[1] = f->ax[0];   /* o again */
+            continue;
+        }
         char ax = c->optical_class == DK_BIAXIAL    ? labels[i]
                   : c->optical_class == DK_UNIAXIAL ? (i < 2 ? 'o' : 'e')
                                                     : 'n';
@@ -361,6 +365,11 @@ freeze_fast(const dk_angle_fast *f, const dk_waves *w, frozen *fz)
     dk_optical_class k = f->pb.crystal->optical_class;
     for (int j = 0; j < 3; j++) {
         double *n = fz->n[j];
+        if (j == 1 && lam[1] == lam[0]) {   /* degenerate: as freeze() */
+            memcpy(fz->n[1], fz->n[0], sizeof fz->n[0]);
+            memcpy(fz->a[1], fz->a[0], sizeof fz->a[0]);
+            continue;
+        }
         n[0] = dk_nfast_n(&f->ax[0], lam[j]);
         n[1] = k == DK_BIAXIAL ? dk_nfast_n(&f->ax[1], lam[j]) : n[0];
         n[2] = k == DK_ISOTROPIC ? n[0] : dk_nfast_n(&f->ax[2], lam[j]);
