@@ -44,7 +44,7 @@ static const char *const gain_usage[] = {
     "  --spectrum       CSV of the parametric gain against signal "
     "wavelength",
     "  --plot <file>    the gain spectrum as a figure (.pdf, .svg, .png)",
-    CLI_PLOT_USAGE,
+    CLI_PLOT_OPTIONS_USAGE,
     CLI_DESIGN_USAGE,
     NULL};
 

@@ -26,13 +26,17 @@ enum {
         {"legend", required_argument, NULL, OPT_LEGEND},                     \
         {"font-size", required_argument, NULL, OPT_FONT_SIZE}
 
-#define CLI_PLOT_USAGE                                                       \
-    "  --plot <file>      draw a figure (.pdf, .svg, .png); --size "        \
-    "single|double|slide|WxH (mm)",                                          \
+/* The figure options after a command's own --plot line. */
+#define CLI_PLOT_OPTIONS_USAGE                                               \
+    "  --size single|double|slide|WxH (mm)  the figure's size",             \
         "  --xrange, --yrange <lo:hi>  axis limits in the axis units; "     \
         "--log x|y|xy; --title <text>",                                      \
         "  --legend auto|none|upper-left|upper-right|lower-left|lower-right|" \
         "outside; --font-size <pt>"
+
+#define CLI_PLOT_USAGE                                                       \
+    "  --plot <file>      draw a figure (.pdf, .svg, .png)",                \
+        CLI_PLOT_OPTIONS_USAGE
 
 /* The figure options as read. */
 typedef struct cli_plot_args {

@@ -44,7 +44,7 @@ static const char *const tolerance_usage[] = {
     "theta, phi, period or tilt",
     "  --plot <file>     with --curve: draw it (.pdf, .svg, .png), the FWHM "
     "shaded",
-    CLI_PLOT_USAGE,
+    CLI_PLOT_OPTIONS_USAGE,
     "",
     "Poled crystals get a QPM design unless --type or an angle option is "
     "given (--scheme overrides).",
