@@ -38,7 +38,7 @@ static const char *const angle_usage[] = {
     "  --broadband          the alpha where signal and idler group "
     "velocities match (noncollinear OPA); also --magic",
     "  --ncpm               temperatures of noncritical phase matching along "
-    "X, Y and Z",
+    "X, Y and Z (uniaxial: XY, theta 90)",
     "  --temp-range <lo:hi> where --ncpm looks (default: the set's range)",
     "  --cut <deg>          crystal cut angle theta: also give external "
     "incidence angles",
@@ -122,8 +122,8 @@ print_table(FILE *f, const dk_design *d, double cut)
         noncol |= d->sol[k].alpha_rad != 0;
     if (nc)
         fprintf(f, "  noncritical phase matching along a principal axis:\n"
-                   "    %-6s %-5s %10s %9s\n",
-                "modes", "axis", "T C", "d_eff");
+                   "    %-6s %-5s %10s %9s %8s\n",
+                "modes", "axis", "T C", "d_eff", "phi");
     else
         fprintf(f, "    %-4s %-8s %-5s %8s %8s %s%9s   %-20s%s\n", "type",
                 "modes", "plane", "theta", "phi", noncol ? "   alpha " : "",
@@ -138,8 +138,8 @@ print_table(FILE *f, const dk_design *d, double cut)
         else
             snprintf(deff, sizeof deff, "%9s", "n/a");
         if (nc) {
-            fprintf(f, "  %s %-6s %-5s %10.2f %s", mark, s->pol, s->plane,
-                    s->temp_c, deff);
+            fprintf(f, "  %s %-6s %-5s %10.2f %s %8.2f", mark, s->pol,
+                    s->plane, s->temp_c, deff, s->phi_rad / DEG);
         } else {
             char pol[12];
             if (d->shg)
@@ -171,6 +171,15 @@ print_table(FILE *f, const dk_design *d, double cut)
     if (d->nsol > 1 && d->chosen >= 0)
         fprintf(f, "  * the design other commands use (solution %d)\n",
                 d->chosen + 1);
+    for (int k = 0; nc && k < d->nsol; k++)
+        if (!strcmp(d->sol[k].plane, "XY")) {
+            fprintf(f, "  XY: any direction at theta 90 deg (X and Y alike "
+                       "in a uniaxial crystal); phi %s\n",
+                    isfinite(d->rq.phi_rad) ? "as given by --phi"
+                                            : "of the largest |d_eff| "
+                                              "(--phi picks another)");
+            break;
+        }
     if (noncol)
         fprintf(f, "  alpha: internal signal-pump angle; > 0: the signal "
                    "lies farther from Z than the pump, < 0: nearer to Z\n");
@@ -236,6 +245,9 @@ solve(const dk_design_request *rq, dk_design *d, int ncpm, int curve)
     dk_error err = {0};
     if (dk_design_ncpm(d, &err))
         return cli_error("%s", err.msg);
+    /* the temperature is the answer here, not an assumption */
+    cli_drop_note("default-temperature");
+    cli_take_notes(&d->notes);
     if (d->nsol == 0)
         return cli_error("no noncritical phase matching along X, Y or Z "
                          "between the temperatures searched (see "

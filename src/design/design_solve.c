@@ -441,8 +441,12 @@ dk_design_ncpm(dk_design *d, dk_error *err)
     d->angle.waves = d->waves;
     /* The temperature is what is solved for here. */
     dk_notes_remove(&d->notes, "default-temperature");
+    /* In a uniaxial crystal every direction at θ = 90° has the same Δk
+     * (X and Y alike) while d_eff depends on φ: one entry, "XY", at the
+     * φ of the largest |d_eff| or at --phi. */
+    const int uniaxial = d->crystal->optical_class == DK_UNIAXIAL;
     for (size_t k = 0; k < 3; k++)
-        for (int c = 0; c < 8; c++) {
+        for (int c = 0; c < 8 && !(uniaxial && k == 1); c++) {
             char p[4] = {l[(c >> 2) & 1], l[(c >> 1) & 1], l[c & 1], 0};
             char t[4];
             dk_angle_type_of(p, t);
@@ -466,9 +470,14 @@ dk_design_ncpm(dk_design *d, dk_error *err)
                 a.theta_rad = dirs[k].theta;
                 a.phi_rad = dirs[k].phi;
                 pb.temp_c = temps[i];
+                if (uniaxial && k == 0 && isfinite(d->rq.phi_rad))
+                    a.phi_rad = d->rq.phi_rad;
                 if (dk_angle_describe(&pb, &a, NULL))
                     continue;
-                snprintf(a.plane, sizeof a.plane, "%s", dirs[k].axis);
+                if (uniaxial && k == 0 && !isfinite(d->rq.phi_rad))
+                    dk_angle_best_phi(&pb, &a);
+                snprintf(a.plane, sizeof a.plane, "%s",
+                         uniaxial && k == 0 ? "XY" : dirs[k].axis);
                 double keep = d->temp_c;
                 d->temp_c = temps[i];
                 angle_solution(d, &a, 0, &d->sol[d->nsol++]);
@@ -477,8 +486,15 @@ dk_design_ncpm(dk_design *d, dk_error *err)
         }
     d->solved = DK_SOLVED_NCPM;
     d->chosen = -1;
-    if (d->nsol > 0)
-        dk_design_choose(d, 0, NULL);
+    if (d->nsol == 0)
+        return DK_OK;
+    /* The default, as for every other solve: the largest |d_eff|. */
+    int best = 0;
+    for (int i = 1; i < d->nsol; i++)
+        if (fabs(d->sol[i].deff_pm_per_v) > fabs(d->sol[best].deff_pm_per_v))
+            best = i;
+    dk_design_choose(d, best, NULL);
+    note_choice(d, "the largest |d_eff|; --pol or --type narrows the list");
     return DK_OK;
 }
 

@@ -116,6 +116,12 @@ expect angle-bbo-deff 0 'd_eff' -- angle --crystal BBO --fundamental 1064nm
 expect angle-ktp-xy 0 'XY' -- angle --crystal KTP --fundamental 1064nm --type II
 expect angle-magic 0 'o o e +- +31\.5[0-9]* +90\.000 +\+3\.8' -- angle --crystal BBO --pump 400nm --signal 600nm --magic
 expect angle-ncpm 0 'X +1[0-9][0-9]\.' -- angle --crystal LBO --fundamental 1064nm --ncpm --dispersion Kato1994
+# Uniaxial NCPM: X and Y alike, one "XY" entry at the phi of the largest
+# |d_eff|: point group -42m, type I ooe at theta 90: d_eff = d36 sin 2phi
+# (Dmitriev et al., Handbook (1999), class -42m), so phi 45 and d_eff = d36
+# (84.5 pm/V in crystals/cdsip2.yaml).
+expect angle-ncpm-uniaxial 0 'ooe +XY +[0-9.]+ +84\.500 +45\.00' -- angle --crystal CdSiP2 --pump 1064nm --signal 1.28um --ncpm
+lacks angle-ncpm-temp-solved 'default-temperature|temperature 25 C' -- angle --crystal LBO --fundamental 1064nm --ncpm --dispersion Kato1994
 expect angle-cut 0 'ext deg' -- angle --crystal BBO --fundamental 1064nm --type I --cut 23
 expect angle-isotropic 2 'isotropic' -- angle --crystal GaAs --fundamental 4um
 expect angle-bad-type 2 "must be 0, I or II" -- angle --crystal BBO --fundamental 1064nm --type III
