@@ -503,6 +503,43 @@ minimal_with(const char *name, const char *find, const char *replace)
     return put(name, text, strlen(text));
 }
 
+/* The document is built from libyaml's events in the pass that checks the
+ * limits: the first document is the crystal, later ones are still parsed
+ * (a syntax error there is reported with its line) but not kept; anchors
+ * without aliases are harmless; a schema error inside a flow collection
+ * points at its own line. */
+static void
+documents_in_one_pass(void **state)
+{
+    (void)state;
+    make_scratch();
+    const char *orig = slurp_fixture(DK_TEST_DATA "/good/minimal.yaml");
+    static char text[9000];
+    snprintf(text, sizeof text, "%s\n---\nid: Other\n", orig);
+    const char *path = put("two.yaml", text, strlen(text));
+    dk_crystal *c = NULL;
+    dk_error err = {0};
+    assert_int_equal(dk_crystal_load(path, &c, &err), DK_OK);
+    assert_string_equal(c->id, "Testium");
+    dk_crystal_free(c);
+    int lines = 1;
+    for (const char *q = orig; *q; q++)
+        lines += *q == '\n';
+    snprintf(text, sizeof text, "%s\n---\nid: [\n", orig);
+    path = put("broken.yaml", text, strlen(text));
+    char where[32];
+    snprintf(where, sizeof where, "line %d,", lines + 3);
+    REFUSED(path, DK_EPARSE, where);
+    path = minimal_with("anchor.yaml", "aliases: [TST]", "aliases: &a [TST]");
+    assert_int_equal(dk_crystal_load(path, &c, &err), DK_OK);
+    assert_int_equal(c->naliases, 1);
+    dk_crystal_free(c);
+    path = minimal_with("flow.yaml", "transparency_um: [0.4, 5.0]",
+                        "transparency_um: [0.4, x]");
+    REFUSED(path, DK_EPARSE, "line 8");
+    remove_scratch();
+}
+
 static void
 control_characters_are_refused(void **state)
 {
@@ -613,6 +650,7 @@ main(void)
         cmocka_unit_test(huge_files_are_refused),
         cmocka_unit_test(deep_nesting_is_refused),
         cmocka_unit_test(aliases_are_refused),
+        cmocka_unit_test(documents_in_one_pass),
         cmocka_unit_test(duplicate_keys_among_many),
         cmocka_unit_test(non_crystal_files_are_not_quoted),
         cmocka_unit_test(special_files_are_refused_without_blocking),

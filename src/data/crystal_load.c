@@ -9,9 +9,10 @@
  *
  * Limits, because every command loads every file of the folder: a file is
  * read only if it is a regular file (a FIFO or device would block or never
- * end) of at most DK_CRYSTAL_MAX_BYTES; a first pass over libyaml's events
- * refuses nesting deeper than DK_CRYSTAL_MAX_DEPTH, more than
- * DK_CRYSTAL_MAX_NODES nodes and aliases, before the document is built.
+ * end) of at most DK_CRYSTAL_MAX_BYTES; the document is built from
+ * libyaml's events in one pass that refuses nesting deeper than
+ * DK_CRYSTAL_MAX_DEPTH, more than DK_CRYSTAL_MAX_NODES nodes and aliases
+ * as they come (load_document).
  * The duplicate-key check sorts the keys of a mapping (n log n, no
  * quadratic worst case). A file whose top level is not a mapping with an
  * 'id' is "not a crystal file" and nothing of its content is quoted; all
@@ -1071,20 +1072,98 @@ limit_error(const char *path, yaml_mark_t at, const char *what,
                         at.line + 1, at.column + 1, what);
 }
 
+/* The node of an event with its marks, or 0 (out of memory, or a value
+ * libyaml refuses to store). A tag "!" is the default tag, as
+ * yaml_parser_load() reads it. */
+static int
+add_node(yaml_document_t *doc, const yaml_event_t *ev)
+{
+    int id = 0;
+    switch (ev->type) {
+    case YAML_SCALAR_EVENT: {
+        yaml_char_t *tag = ev->data.scalar.tag;
+        id = yaml_document_add_scalar(
+            doc, tag && strcmp((char *)tag, "!") ? tag : NULL,
+            ev->data.scalar.value, (int)ev->data.scalar.length,
+            ev->data.scalar.style);
+        break;
+    }
+    case YAML_SEQUENCE_START_EVENT: {
+        yaml_char_t *tag = ev->data.sequence_start.tag;
+        id = yaml_document_add_sequence(
+            doc, tag && strcmp((char *)tag, "!") ? tag : NULL,
+            ev->data.sequence_start.style);
+        break;
+    }
+    case YAML_MAPPING_START_EVENT: {
+        yaml_char_t *tag = ev->data.mapping_start.tag;
+        id = yaml_document_add_mapping(
+            doc, tag && strcmp((char *)tag, "!") ? tag : NULL,
+            ev->data.mapping_start.style);
+        break;
+    }
+    default:
+        return 0;
+    }
+    if (id) {
+        yaml_node_t *n = yaml_document_get_node(doc, id);
+        n->start_mark = ev->start_mark;
+        n->end_mark = ev->end_mark;
+    }
+    return id;
+}
+
+/* The containers open while a document is built: node ids and, for a
+ * mapping, the key waiting for its value (0: none). */
+typedef struct open_nodes {
+    int n;
+    int id[DK_CRYSTAL_MAX_DEPTH + 1];
+    int key[DK_CRYSTAL_MAX_DEPTH + 1];
+} open_nodes;
+
+/* Attach node @id to the innermost open container; 0 out of memory. */
+static int
+attach(yaml_document_t *doc, open_nodes *o, int id)
+{
+    if (o->n == 0)
+        return 1;   /* the root: the document's first node */
+    int top = o->id[o->n - 1];
+    if (yaml_document_get_node(doc, top)->type == YAML_SEQUENCE_NODE)
+        return yaml_document_append_sequence_item(doc, top, id);
+    if (!o->key[o->n - 1]) {
+        o->key[o->n - 1] = id;
+        return 1;
+    }
+    int key = o->key[o->n - 1];
+    o->key[o->n - 1] = 0;
+    return yaml_document_append_mapping_pair(doc, top, key, id);
+}
+
 /*
- * First pass over the events of @data: refuse deep nesting, too many
- * nodes and aliases before libyaml builds the document, so that a hostile
- * file costs little.
+ * One pass over the events of @data: refuse deep nesting, too many nodes
+ * and aliases (so that a hostile file costs little, and no node is built
+ * beyond the limits) while building the stream's first document with
+ * libyaml's document API - the nodes, marks and tags yaml_parser_load()
+ * gives. Later documents are parsed and checked, not kept, as before
+ * (a check pass, then yaml_parser_load(): the same answers, one scan).
+ * On success *doc is initialised (no root node when the stream holds no
+ * document); on failure nothing needs freeing.
  */
 static dk_status
-check_shape(const char *path, const unsigned char *data, size_t size,
-            dk_error *err)
+load_document(const char *path, const unsigned char *data, size_t size,
+              yaml_document_t *doc, dk_error *err)
 {
     yaml_parser_t parser;
-    if (!yaml_parser_initialize(&parser))
+    if (!yaml_document_initialize(doc, NULL, NULL, NULL, 1, 1))
         return dk_error_set(err, DK_ENOMEM, "out of memory");
+    if (!yaml_parser_initialize(&parser)) {
+        yaml_document_delete(doc);
+        return dk_error_set(err, DK_ENOMEM, "out of memory");
+    }
     yaml_parser_set_input_string(&parser, data, size);
     long depth = 0, nodes = 0;
+    int documents = 0, building = 0;
+    open_nodes o = {0};
     char what[160];
     dk_status s = DK_OK;
     for (;;) {
@@ -1095,21 +1174,30 @@ check_shape(const char *path, const unsigned char *data, size_t size,
         }
         yaml_event_type_t type = ev.type;
         yaml_mark_t at = ev.start_mark;
-        yaml_event_delete(&ev);
-        if (type == YAML_STREAM_END_EVENT)
+        if (type == YAML_STREAM_END_EVENT) {
+            yaml_event_delete(&ev);
             break;
+        }
         if (type == YAML_ALIAS_EVENT) {
+            yaml_event_delete(&ev);
             s = limit_error(path, at,
                             "aliases (*name) are not allowed in crystal "
                             "files: write the value out",
                             err);
             break;
         }
-        if (type == YAML_SEQUENCE_END_EVENT || type == YAML_MAPPING_END_EVENT)
+        if (type == YAML_DOCUMENT_START_EVENT)
+            building = documents++ == 0;
+        if (type == YAML_DOCUMENT_END_EVENT)
+            building = 0;
+        int end = type == YAML_SEQUENCE_END_EVENT ||
+                  type == YAML_MAPPING_END_EVENT;
+        int start = type == YAML_SEQUENCE_START_EVENT ||
+                    type == YAML_MAPPING_START_EVENT;
+        if (end)
             depth--;
-        if ((type == YAML_SEQUENCE_START_EVENT ||
-             type == YAML_MAPPING_START_EVENT) &&
-            ++depth > DK_CRYSTAL_MAX_DEPTH) {
+        if (start && ++depth > DK_CRYSTAL_MAX_DEPTH) {
+            yaml_event_delete(&ev);
             snprintf(what, sizeof what,
                      "nested more than %d levels deep (the limit for a "
                      "crystal file)",
@@ -1117,9 +1205,9 @@ check_shape(const char *path, const unsigned char *data, size_t size,
             s = limit_error(path, at, what, err);
             break;
         }
-        if ((type == YAML_SCALAR_EVENT || type == YAML_SEQUENCE_START_EVENT ||
-             type == YAML_MAPPING_START_EVENT) &&
+        if ((start || type == YAML_SCALAR_EVENT) &&
             ++nodes > DK_CRYSTAL_MAX_NODES) {
+            yaml_event_delete(&ev);
             snprintf(what, sizeof what,
                      "more than %d keys, values and lists (the limit for a "
                      "crystal file)",
@@ -1127,8 +1215,30 @@ check_shape(const char *path, const unsigned char *data, size_t size,
             s = limit_error(path, at, what, err);
             break;
         }
+        int ok = 1;
+        if (building && end && o.n > 0) {
+            yaml_document_get_node(doc, o.id[o.n - 1])->end_mark = ev.end_mark;
+            o.n--;
+        } else if (building && (start || type == YAML_SCALAR_EVENT)) {
+            int id = add_node(doc, &ev);
+            ok = id && attach(doc, &o, id);
+            if (ok && start) {
+                o.id[o.n] = id;
+                o.key[o.n++] = 0;
+            }
+        }
+        yaml_event_delete(&ev);
+        if (!ok) {
+            s = limit_error(path, at,
+                            "cannot store this value (out of memory, or "
+                            "text that is not UTF-8)",
+                            err);
+            break;
+        }
     }
     yaml_parser_delete(&parser);
+    if (s)
+        yaml_document_delete(doc);
     return s;
 }
 
@@ -1158,20 +1268,10 @@ dk_crystal_load_buffer(const char *path, const void *data, size_t size,
                             "allowed for a crystal file",
                             p.s, size, DK_CRYSTAL_MAX_BYTES);
     }
-    dk_status s = check_shape(path, data, size, err);
+    yaml_document_t doc;
+    dk_status s = load_document(path, data, size, &doc, err);
     if (s)
         return s;
-    yaml_parser_t parser;
-    yaml_document_t doc;
-    if (!yaml_parser_initialize(&parser))
-        return dk_error_set(err, DK_ENOMEM, "out of memory");
-    yaml_parser_set_input_string(&parser, data, size);
-    if (!yaml_parser_load(&parser, &doc)) {
-        s = syntax_error(path, &parser, err);
-        yaml_parser_delete(&parser);
-        return s;
-    }
-    yaml_parser_delete(&parser);
 
     dk_arena *arena = dk_arena_new();
     dk_crystal *cr = arena ? dk_arena_alloc(arena, sizeof *cr) : NULL;
