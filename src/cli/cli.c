@@ -100,6 +100,17 @@ cli_warn(const char *fmt, ...)
 }
 
 void
+cli_caution_laser(void)
+{
+    dk_notes_add(&notes, DK_NOTE_CAUTION, "laser-safety",
+                 "laser safety: these are Class 3B/4 beams and the infrared "
+                 "ones are invisible; wear eye protection rated for every "
+                 "wavelength present, dump the residual pump, keep below the "
+                 "crystal's damage threshold; local laser-safety rules and "
+                 "your laser safety officer take precedence");
+}
+
+void
 cli_take_notes(const dk_notes *from)
 {
     dk_notes_merge(&notes, from);

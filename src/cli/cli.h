@@ -124,6 +124,10 @@ void cli_warn(const char *fmt, ...)
 #endif
     ;
 
+/* Record the laser-safety caution (commands whose numbers size a working
+ * source: gain, simulate). */
+void cli_caution_laser(void);
+
 /* Add the recorded warnings to @obj as "warnings": [...] (if any). */
 void cli_warnings_to_json(json_object *obj);
 

@@ -179,6 +179,7 @@ cmd_gain(int argc, char **argv)
         json_object_object_add(o, "alpha_deg",
                                cli_json_num(d.angle.alpha_rad /
                                             DK_RAD_PER_DEG));
+    cli_caution_laser();   /* the numbers size a working source */
     cli_out out;
     if (cli_out_open(&out))
         goto done;

@@ -616,11 +616,7 @@ run_mix(const int *mode, dk_design *d, const dk_sim_problem *p,
                  "low-conversion limit; use --model full",
                  gname, m->photon_fraction,
                  m->kind == DK_MIX_OPA ? "pump's" : "scarcer input's");
-    cli_warn("laser safety: these are Class 3B/4 pulses and the infrared "
-             "outputs are invisible; wear eye protection rated for every "
-             "wavelength present, dump the residual pump, keep below the "
-             "crystal's damage threshold; local laser-safety rules and your "
-             "laser safety officer take precedence");
+    cli_caution_laser();
     cli_out out;
     if (cli_out_open(&out))
         goto done;
@@ -995,11 +991,7 @@ cmd_simulate(int argc, char **argv)
                      "times that separate",
                      rho * 1e3, rho * dp->length_mm * 1e3);
     }
-    cli_warn("laser safety: these are Class 3B/4 pulses and the infrared "
-             "outputs are invisible; wear eye protection rated for every "
-             "wavelength present, dump the residual pump, keep below the "
-             "crystal's damage threshold; local laser-safety rules and your "
-             "laser safety officer take precedence");
+    cli_caution_laser();
     cli_out out;
     if (cli_out_open(&out))
         goto done;

@@ -178,6 +178,7 @@ SIMOPA="--crystal BBO --pump 800nm --signal 1300nm --type I --length 2mm --pump-
 expect sim-opa 0 'convergence: halving the step changed the output energies by .*converged' -- simulate $SIMOPA
 expect sim-manley-rowe 0 'Manley-Rowe: photon-number invariants kept to' -- simulate $SIMOPA
 expect sim-safety 0 'laser safety officer' -- simulate $SIMOPA
+expect gain-safety 0 'caution: laser safety.*laser safety officer' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2
 expect sim-walkoff 0 'spatial walk-off .* is not simulated' -- simulate $SIMOPA
 json_has sim-json "waves.0.energy_out_J waves.2.fwhm_out_fs waves.1.transform_limit_out_fs convergence.change manley_rowe_defect along_z.z_mm grid.samples" -- simulate $SIMOPA --json
 expect sim-csv-energy 0 '^z_mm,signal_fluence_J_per_cm2,signal_energy_J' -- simulate $SIMOPA --csv
