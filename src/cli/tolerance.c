@@ -468,7 +468,11 @@ cmd_tolerance(int argc, char **argv)
             snprintf(ex, sizeof ex, "%s%.4g %s",
                      acc[i].open_lo || acc[i].open_hi ? "> " : "",
                      acc[i].fwhm * items[i].scale, items[i].unit);
-            if (isfinite(acc[i].linear_fwhm))
+            /* A first-order width 100 times the exact one means the slope
+             * vanishes at the operating point: the estimate says nothing
+             * (JSON keeps the number). */
+            if (isfinite(acc[i].linear_fwhm) &&
+                !(acc[i].linear_fwhm > 100 * acc[i].fwhm))
                 snprintf(li, sizeof li, "%.4g %s",
                          acc[i].linear_fwhm * items[i].scale, items[i].unit);
             else

@@ -131,6 +131,9 @@ json_has angle-json-sets "sets.2.solutions.0.theta_deg" -- angle --crystal BBO -
 expect tol-qpm 0 'temperature +10\.[0-9]+ C' -- tolerance --crystal MgO:LN --pump 1064nm --idler 3.4um --period 30.5um --length 20mm
 expect tol-bbo 0 'angle theta' -- tolerance --crystal BBO --fundamental 1064nm --type I --length 10mm
 expect tol-ncpm 0 'noncritical' -- tolerance --crystal LBO --fundamental 1064nm --dispersion Kato1994 --type I --theta 90 --temp 149.15 --length 10mm
+# At the broadband noncollinear angle dk has no slope in the signal: the
+# first-order width (once printed as 1.2e8 nm) is no answer.
+expect tol-flat-first-order 0 'signal, pump fixed +[0-9.]+ nm +\(noncritical\)' -- tolerance --crystal BBO --pump 400nm --signal 600nm --broadband --length 2mm
 expect tol-curve 0 '^temperature_C,sinc2' -- tolerance --crystal MgO:LN --fundamental 1064nm --length 10mm --curve temperature
 expect tol-no-length 2 '--length is required' -- tolerance --crystal MgO:LN --fundamental 1064nm
 expect tol-bad-curve 2 "must be one of" -- tolerance --crystal MgO:LN --fundamental 1064nm --length 1cm --curve colour
