@@ -7,6 +7,7 @@
 
 #include "testutil.h"
 
+#include "cli/cli.h"
 #include "deltak/command.h"
 
 #define RUN(res, ...)                                                        \
@@ -93,11 +94,56 @@ threads(void **state)
         free(j[i].out);
 }
 
+/* Explanations folded to 79 columns (cli_wrap): every line within the
+ * width counting characters (a "°" is one column, two bytes), the words
+ * and their order kept, the lead and the hang in place, a word longer
+ * than a line alone on its line, a '\n' in the text a line break. */
+static void
+wrapped_text(void **state)
+{
+    (void)state;
+    char *buf = NULL;
+    size_t len = 0;
+    FILE *f = open_memstream(&buf, &len);
+    assert_non_null(f);
+    /* 20 words of 3 columns (4 bytes each: "ab°") and a spaced run */
+    char text[512] = "";
+    for (int i = 0; i < 20; i++)
+        strcat(text, "ab° ");
+    strcat(text, "x\ny   ");
+    char big[120];
+    memset(big, 'w', 100);
+    big[100] = '\0';
+    strcat(text, big);
+    cli_wrap(f, "  note: ", "        ", text);
+    /* a number keeps its unit: "25 C" moves down whole */
+    cli_wrap(f, "", "    ",
+             "beta-BaB2O4, data set Tamosauskas2018: pump 0.4, signal 0.6, "
+             "idler 1.2 um at 25 C");
+    fclose(f);
+    /* 8 + 20 words: 8 + 3 + 19 x 4 = 87 columns: the first line holds
+     * 18 words (8 + 3 + 17 x 4 = 79), the second the other two and "x" */
+    const char *want =
+        "  note: ab° ab° ab° ab° ab° ab° ab° ab° ab° ab° ab° ab° ab° ab° ab° "
+        "ab° ab° ab°\n"
+        "        ab° ab° x\n"
+        "        y\n";
+    assert_memory_equal(buf, want, strlen(want));
+    const char *rest = buf + strlen(want);
+    assert_int_equal(strncmp(rest, "        ", 8), 0);
+    assert_memory_equal(rest + 8, big, 100);
+    assert_string_equal(rest + 108,
+                        "\nbeta-BaB2O4, data set Tamosauskas2018: pump 0.4, "
+                        "signal 0.6, idler 1.2 um at\n    25 C\n");
+    free(buf);
+}
+
 int
 main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(answers_and_errors),
+        cmocka_unit_test(wrapped_text),
         cmocka_unit_test(threads),
     };
     return cmocka_run_group_tests_name("command", tests, NULL, NULL);

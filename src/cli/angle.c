@@ -100,17 +100,23 @@ external(const dk_design *d, const dk_solution *s, double cut)
 static void
 print_header(FILE *f, const dk_design *d, int first)
 {
-    fprintf(f, "%s%s, data set %s%s: ", first ? "" : "\n", d->crystal->id,
-            d->set->name, d->set->from_memory ? " [from memory]" : "");
+    char head[512], t[32] = "";
+    if (d->solved != DK_SOLVED_NCPM)
+        snprintf(t, sizeof t, " at %.4g C", d->temp_c);
     if (d->shg)
-        fprintf(f, "SHG of %.6g um", d->waves.signal_um);
+        snprintf(head, sizeof head, "%s, data set %s%s: SHG of %.6g um%s",
+                 d->crystal->id, d->set->name,
+                 d->set->from_memory ? " [from memory]" : "",
+                 d->waves.signal_um, t);
     else
-        fprintf(f, "pump %.6g, signal %.6g, idler %.6g um",
-                d->waves.pump_um, d->waves.signal_um, d->waves.idler_um);
-    if (d->solved == DK_SOLVED_NCPM)
-        fputs("\n", f);
-    else
-        fprintf(f, " at %.4g C\n", d->temp_c);
+        snprintf(head, sizeof head,
+                 "%s, data set %s%s: pump %.6g, signal %.6g, idler %.6g um%s",
+                 d->crystal->id, d->set->name,
+                 d->set->from_memory ? " [from memory]" : "",
+                 d->waves.pump_um, d->waves.signal_um, d->waves.idler_um, t);
+    if (!first)
+        fputc('\n', f);
+    cli_wrap(f, "", "    ", head);
 }
 
 static void
@@ -125,18 +131,20 @@ print_table(FILE *f, const dk_design *d, double cut)
                    "    %-6s %-5s %10s %9s %8s\n",
                 "modes", "axis", "T C", "d_eff", "phi");
     else
-        fprintf(f, "    %-4s %-8s %-5s %8s %8s %s%9s   %-20s%s\n", "type",
-                "modes", "plane", "theta", "phi", noncol ? "   alpha " : "",
+        /* 78 columns (86 with both alpha and ext) */
+        fprintf(f, "    %-4s %-8s %-5s %7s %7s %s%7s  %-19s%s\n", "type",
+                "modes", "plane", "theta", "phi", noncol ? "   alpha" : "",
                 "d_eff", "walk-off mrad s i p",
                 isfinite(cut) ? "  ext deg" : "");
     for (int k = 0; k < d->nsol; k++) {
         const dk_solution *s = &d->sol[k];
         const char *mark = k == d->chosen ? "*" : " ";
         char deff[16];
+        int dw = nc ? 9 : 7;
         if (isfinite(s->deff_pm_per_v))
-            snprintf(deff, sizeof deff, "%9.3f", s->deff_pm_per_v);
+            snprintf(deff, sizeof deff, "%*.3f", dw, s->deff_pm_per_v);
         else
-            snprintf(deff, sizeof deff, "%9s", "n/a");
+            snprintf(deff, sizeof deff, "%*s", dw, "n/a");
         if (nc) {
             fprintf(f, "  %s %-6s %-5s %10.2f %s %8.2f", mark, s->pol,
                     s->plane, s->temp_c, deff, s->phi_rad / DEG);
@@ -150,8 +158,8 @@ print_table(FILE *f, const dk_design *d, double cut)
                          s->pol[2]);
             char alpha[16] = "";
             if (noncol)
-                snprintf(alpha, sizeof alpha, " %+8.3f", s->alpha_rad / DEG);
-            fprintf(f, "  %s %-4s %-8s %-5s %8.3f %8.3f%s %s   %6.2f %6.2f "
+                snprintf(alpha, sizeof alpha, " %+7.3f", s->alpha_rad / DEG);
+            fprintf(f, "  %s %-4s %-8s %-5s %7.3f %7.3f%s %s  %6.2f %6.2f "
                        "%6.2f",
                     mark, s->type, pol, s->plane[0] ? s->plane : "-",
                     s->theta_rad / DEG, s->phi_rad / DEG, alpha, deff,
@@ -181,8 +189,9 @@ print_table(FILE *f, const dk_design *d, double cut)
             break;
         }
     if (noncol)
-        fprintf(f, "  alpha: internal signal-pump angle; > 0: the signal "
-                   "lies farther from Z than the pump, < 0: nearer to Z\n");
+        cli_wrap(f, "  ", "  ",
+                 "alpha: internal signal-pump angle; > 0: the signal lies "
+                 "farther from Z than the pump, < 0: nearer to Z");
 }
 
 static void

@@ -104,6 +104,22 @@ void cli_flags_json(json_object *obj, unsigned range, int shg);
  * any flags; nothing otherwise. */
 void cli_flags_text(FILE *f, unsigned range, int shg);
 
+/* The columns text output keeps within (tables by their formats,
+ * explanations by cli_wrap). */
+#define CLI_WIDTH 79
+
+/* @text folded to CLI_WIDTH columns: @lead before the first line, @hang
+ * before each further one, a newline at the end (wrap.c). */
+void cli_wrap(FILE *f, const char *lead, const char *hang, const char *text);
+
+/* The same for a printf-style text (up to 2 kB). */
+void cli_wrapf(FILE *f, const char *lead, const char *hang, const char *fmt,
+               ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 4, 5)))
+#endif
+    ;
+
 /*
  * Strict numbers for options: no empty text, NaN, infinity, hexadecimal
  * or trailing characters, and inside [lo, hi]. Print the error with the

@@ -184,16 +184,18 @@ cmd_gain(int argc, char **argv)
     if (cli_out_open(&out))
         goto done;
     FILE *f = out.f;
-    fprintf(f, "%s (data set %s), %s design, %.4g mm, %.4g C, d_eff %.3g "
-               "pm/V\n",
+    cli_wrapf(f, "", "    ",
+              "%s (data set %s), %s design, %.4g mm, %.4g C, d_eff %.3g pm/V",
             c->id, d.set->name, qpm ? "QPM" : "birefringent", d.length_mm,
             d.temp_c, deff);
     if (isfinite(ds.factor))
-        fprintf(f, "  (d_eff %.3g pm/V from d measured at %.4g um, scaled to "
-                   "these wavelengths by Miller's rule: x %.3f)\n",
+        cli_wrapf(f, "  ", "   ",
+                  "(d_eff %.3g pm/V from d measured at %.4g um, scaled to "
+                  "these wavelengths by Miller's rule: x %.3f)",
                 ds.measured_pm_per_v, ds.measured_um, ds.factor);
     else
-        fprintf(f, "  (d_eff from d measured at %.4g um, not scaled: %s)\n",
+        cli_wrapf(f, "  ", "   ",
+                  "(d_eff from d measured at %.4g um, not scaled: %s)",
                 ds.measured_um, ds.why_not);
     if (!qpm)
         fprintf(f, "  modes %s, theta %.3f deg, phi %.2f deg%s", d.pol,
@@ -288,25 +290,27 @@ cmd_gain(int argc, char **argv)
                     10 * log10(r.gain));
             if (r.have_band)
                 fprintf(f,
-                        "  gain bandwidth (FWHM of G - 1): signal %.4g-%.4g "
-                        "um (%.4g nm, %.4g cm-1, %.4g THz)\n"
-                        "                                   idler %.4g-%.4g "
-                        "um (%.4g nm)\n",
+                        "  gain bandwidth (FWHM of G - 1):\n"
+                        "    signal %.4g-%.4g um (%.4g nm, %.4g cm-1, %.4g "
+                        "THz)\n"
+                        "    idler  %.4g-%.4g um (%.4g nm)\n",
                         r.signal_lo_um, r.signal_hi_um,
                         (r.signal_hi_um - r.signal_lo_um) * 1e3,
                         1e4 * (1 / r.signal_lo_um - 1 / r.signal_hi_um),
                         r.band_thz, r.idler_lo_um, r.idler_hi_um,
                         (r.idler_hi_um - r.idler_lo_um) * 1e3);
             if (r.have_band)
-                fprintf(f, "  exact gain bandwidth %.4g THz: supports a "
-                           "transform-limited %.4g fs Gaussian or %.4g fs "
-                           "sech2 pulse\n",
+                cli_wrapf(f, "  ", "    ",
+                          "exact gain bandwidth %.4g THz: supports a "
+                          "transform-limited %.4g fs Gaussian or %.4g fs "
+                          "sech2 pulse",
                         r.band_thz,
                         dk_transform_limit_fs(r.band_thz, DK_SHAPE_GAUSSIAN),
                         dk_transform_limit_fs(r.band_thz, DK_SHAPE_SECH2));
             if (isfinite(r.estimate_thz))
-                fprintf(f, "  %s-gain estimate (Gamma L %s %.4g) from the "
-                           "signal-idler GVM (%.3g fs/mm%s): %.4g THz%s\n",
+                cli_wrapf(f, "  ", "    ",
+                          "%s-gain estimate (Gamma L %s %.4g) from the "
+                          "signal-idler GVM (%.3g fs/mm%s): %.4g THz%s",
                         r.high_gain ? "high" : "low",
                         r.high_gain ? ">" : "<=", DK_GAIN_REGIME_GL,
                         r.pulse.gvm_fs_per_mm[2],
@@ -315,9 +319,10 @@ cmd_gain(int argc, char **argv)
                         r.high_gain ? " [(2 sqrt(ln2)/pi) sqrt(Gamma/L)/|GVM|]"
                                     : " [sinc^2 width 0.886/(L |GVM|)]");
             else
-                fprintf(f, "  signal and idler group velocities matched: "
-                           "first-order estimates do not apply (the band is "
-                           "set by GVD)\n");
+                cli_wrap(f, "  ", "    ",
+                         "signal and idler group velocities matched: "
+                         "first-order estimates do not apply (the band is "
+                         "set by GVD)");
             json_object_object_add(o, "intensity_GW_per_cm2",
                                    cli_json_num(inten));
             json_object_object_add(o, "gamma_per_mm",
@@ -444,8 +449,10 @@ cmd_gain(int argc, char **argv)
         cli_out_json(&out, o);
         o = NULL;
     } else if (!spectrum) {
-        fprintf(out.f, "\n  plane-wave and Gaussian-beam estimates; real "
-                       "beams, losses and thermal effects lower them\n");
+        fputc('\n', out.f);
+        cli_wrap(out.f, "  ", "  ",
+                 "plane-wave and Gaussian-beam estimates; real beams, "
+                 "losses and thermal effects lower them");
     }
     rc = cli_out_commit(&out);
 #undef d

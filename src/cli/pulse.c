@@ -246,16 +246,17 @@ rank_candidates(const cli_common *cm, const cli_design_args *da,
         cli_out_json(&out, o);
     } else {
         fprintf(out.f, "candidates for %.4g fs %s pulses, ranked by (d_eff "
-                       "L_max)^2 / (n_s n_i n_p) at the longest crystal "
+                       "L_max)^2 / (n_s n_i n_p)\nat the longest crystal "
                        "that supports them\n\n",
                 tau, dk_pulse_shape_str(shape));
-        fprintf(out.f, "  %-4s %-12s %-5s %16s %8s %10s %-14s %9s %8s\n",
-                "rank", "crystal", "modes", "theta deg / um", "d_eff",
-                "L_max mm", "limiting pair", "walk-off", "merit");
+        /* 78 columns: a terminal's width */
+        fprintf(out.f, "  %-2s %-10s %-5s %12s %5s %8s %-12s %8s %6s\n", "#",
+                "crystal", "modes", "theta/period", "d_eff", "L_max mm",
+                "limited by", "walk-off", "merit");
         for (int i = 0; i < nc; i++) {
             candidate *k = &cand[i];
             if (!k->ok) {
-                fprintf(out.f, "  %-4s %-12s no design: %s\n", "-", k->name,
+                fprintf(out.f, "  %-2s %-10s no design: %s\n", "-", k->name,
                         k->why);
                 continue;
             }
@@ -266,20 +267,23 @@ rank_candidates(const cli_common *cm, const cli_design_args *da,
                 snprintf(lm, sizeof lm, "any");
             snprintf(where, sizeof where, k->qpm ? "%.3f um" : "%.3f",
                      k->qpm ? k->period_um : k->theta_deg);
-            fprintf(out.f, "  %-4d %-12s %-5s %16s %8.3g %10s %-14s %9.3g "
-                           "%8.3f%s\n",
+            fprintf(out.f, "  %-2d %-10s %-5s %12s %5.3g %8s %-12s %8.3g "
+                           "%6.3f%s\n",
                     i + 1, k->name, k->pol, where, k->deff, lm,
                     k->limiting >= 0 ? dk_pair_str((dk_pair)k->limiting, 0)
                                      : "-",
                     k->walkoff_mrad, k->merit / best,
                     k->range ? "  [extrapolated]" : "");
         }
-        fprintf(out.f, "\n  L_max: the shortest over the wave pairs of the "
-                       "length whose acceptance equals the pulse's spectral "
-                       "FWHM; walk-off: the largest, mrad\n"
-                       "  merit: relative low-conversion efficiency at L_max "
-                       "(plane waves; walk-off, absorption and damage "
-                       "not included)\n");
+        fprintf(out.f, "\n  theta in deg, period in um; L_max: the shortest "
+                       "over the wave pairs of the\n"
+                       "  length whose acceptance equals the pulse's spectral "
+                       "FWHM; limited by: the\n"
+                       "  pair that sets it; walk-off: the largest, mrad; "
+                       "merit: relative\n"
+                       "  low-conversion efficiency at L_max (plane waves; "
+                       "walk-off, absorption and\n"
+                       "  damage not included)\n");
     }
     rc = cli_out_commit(&out);
 done:
@@ -517,75 +521,85 @@ cmd_pulse(int argc, char **argv)
         cli_notes_to_json(o);
         cli_out_json(&out, o);
     } else {
-        fprintf(out.f, "%s (data set %s), %s design at %.4g C", c->id,
-                set->name, qpm ? "QPM" : "birefringent", d.temp_c);
-        if (!qpm)
-            fprintf(out.f, ", modes %s, theta %.3f deg, phi %.2f deg", d.pol,
-                    d.theta_rad / DEG, d.phi_rad / DEG);
-        if (pp.noncollinear)
-            fprintf(out.f, ",\n  noncollinear: signal at %+.3f deg, idler at "
-                           "%.3f deg from the pump (internal)",
-                    d.angle.alpha_rad / DEG, pp.angle_rad[1] / DEG);
-        fputc('\n', out.f);
+        char head[512];
+        int hn = snprintf(head, sizeof head, "%s (data set %s), %s design "
+                                             "at %.4g C",
+                          c->id, set->name, qpm ? "QPM" : "birefringent",
+                          d.temp_c);
+        if (!qpm && hn > 0 && (size_t)hn < sizeof head)
+            snprintf(head + hn, sizeof head - (size_t)hn,
+                     ", modes %s, theta %.3f deg, phi %.2f deg", d.pol,
+                     d.theta_rad / DEG, d.phi_rad / DEG);
+        cli_wrap(out.f, "", "    ", head);
+        if (pp.noncollinear) {
+            snprintf(head, sizeof head, "noncollinear: signal at %+.3f deg, "
+                                        "idler at %.3f deg from the pump "
+                                        "(internal)",
+                     d.angle.alpha_rad / DEG, pp.angle_rad[1] / DEG);
+            cli_wrap(out.f, "  ", "    ", head);
+        }
         cli_flags_text(out.f, dk_design_range_flags(&d, &d.waves, d.temp_c),
                        d.shg);
-        fprintf(out.f, "\n  %-7s %10s %10s %12s %13s %13s %10s\n", "wave",
+        fprintf(out.f, "\n  %-7s %8s %9s %11s %11s %11s %13s\n", "wave",
                 "um", "n", "group index", "GVD fs2/mm", "TOD fs3/mm",
-                "walk-off");
+                "walk-off mrad");
         static const char *const shg_names[3] = {"fund.", "", "harm."};
         for (int k = 0; k < 3; k++) {
             if (d.shg && k == 1)
                 continue;   /* signal and idler are the same wave */
-            fprintf(out.f, "  %-7s %10.5g %10.6f %12.6f %13.2f %13.2f %5.2f "
-                           "mrad\n",
+            fprintf(out.f, "  %-7s %8.5g %9.6f %11.6f %11.2f %11.2f %13.2f"
+                           "\n",
                     d.shg ? shg_names[k] : wave_names[k], pp.w[k].lambda_um,
                     pp.w[k].n,
                     pp.w[k].group_index, pp.w[k].gvd_fs2_per_mm,
                     pp.w[k].tod_fs3_per_mm, pp.w[k].walkoff_rad * 1e3);
         }
-        fprintf(out.f, "\n  %-14s %12s %14s", "pair", "GVM fs/mm",
+        /* at most 71 columns with every optional column */
+        fprintf(out.f, "\n  %-14s %9s %13s", "pair", "GVM fs/mm",
                 "walk-off mrad");
         if (isfinite(tau))
-            fprintf(out.f, " %16s", "split length mm");
+            fprintf(out.f, " %9s", "split mm");
         if (isfinite(waist_mm))
-            fprintf(out.f, " %16s", "aperture len mm");
+            fprintf(out.f, " %11s", "aperture mm");
         if (isfinite(len_mm))
-            fprintf(out.f, " %14s", "delay fs");
+            fprintf(out.f, " %9s", "delay fs");
         fputc('\n', out.f);
         static const char *const pn[3] = {"signal-pump", "idler-pump",
                                           "signal-idler"};
         for (int k = 0; k < 3; k++) {
             if (d.shg && k > 0)
                 break;
-            fprintf(out.f, "  %-14s %12.2f %14.2f",
+            fprintf(out.f, "  %-14s %9.2f %13.2f",
                     d.shg ? "fund.-harmonic" : pn[k], pp.gvm_fs_per_mm[k],
                     pp.walkoff_rad[k] * 1e3);
             if (isfinite(tau))
-                fprintf(out.f, " %16.4g",
+                fprintf(out.f, " %9.4g",
                         dk_splitting_length_mm(tau, pp.gvm_fs_per_mm[k]));
             if (isfinite(waist_mm))
-                fprintf(out.f, " %16.4g",
+                fprintf(out.f, " %11.4g",
                         dk_aperture_length_mm(waist_mm * 1e3,
                                               pp.walkoff_rad[k]));
             if (isfinite(len_mm))
-                fprintf(out.f, " %14.1f", pp.gvm_fs_per_mm[k] * len_mm);
+                fprintf(out.f, " %9.1f", pp.gvm_fs_per_mm[k] * len_mm);
             fputc('\n', out.f);
         }
-        fprintf(out.f, "\n  GVM = 1/v_g(first) - 1/v_g(second); split length "
-                       "= duration/|GVM|; aperture length = sqrt(pi) w0 / "
-                       "walk-off\n");
+        fprintf(out.f, "\n  GVM = 1/v_g(first) - 1/v_g(second); split: the "
+                       "length where pulses part,\n"
+                       "  duration/|GVM|; aperture: where beams part, "
+                       "sqrt(pi) w0 / walk-off;\n"
+                       "  delay: GVM times the crystal length\n");
         if (pp.noncollinear)
             fprintf(out.f, "  noncollinear: pairs with the pump projected on "
-                           "the pump direction, signal-idler on the signal "
-                           "direction\n");
+                           "the pump direction,\n"
+                           "  signal-idler on the signal direction\n");
         int any = 0;
         for (int k = 0; k < DK_NPAIRS; k++)
             any |= have_acc[k] || have_lmax[k];
         if (any) {
             fprintf(out.f, "\n  bandwidth as time");
             if (isfinite(tau))
-                fprintf(out.f, " (%.4g fs %s, transform-limited: spectral "
-                               "FWHM %.4g THz)",
+                fprintf(out.f, " (%.4g fs %s; %.4g THz FWHM when "
+                               "transform-limited)",
                         tau, dk_pulse_shape_str(shape),
                         dk_pulse_bandwidth_thz(tau, shape));
             fprintf(out.f, "\n  %-22s", "pair (wave held)");
@@ -626,19 +640,19 @@ cmd_pulse(int argc, char **argv)
                 fputc('\n', out.f);
             }
             fprintf(out.f, "  acceptance: FWHM of sinc^2 in the frequency of "
-                           "the moving waves (exact); supports: the "
-                           "transform-limited %s pulse with that spectral "
-                           "FWHM\n",
+                           "the moving waves (exact);\n"
+                           "  supports: the transform-limited %s pulse with "
+                           "that spectral FWHM\n",
                     dk_pulse_shape_str(shape));
             if (isfinite(tau))
                 fprintf(out.f, "  longest crystal: where the acceptance "
-                               "equals the pulse's spectral FWHM (about "
-                               "twice tau/|GVM| where GVM rules)\n");
+                               "equals the pulse's spectral FWHM\n"
+                               "  (about twice tau/|GVM| where GVM rules)\n");
         }
         int anyd = have_disp[0] || have_disp[1] || have_disp[2];
         if (anyd) {
             fprintf(out.f, "\n  a transform-limited %.4g fs %s pulse after "
-                           "%.4g mm in its own mode (exact k(w)):\n"
+                           "%.4g mm\n  (each wave in its own mode, exact k(w)):\n"
                            "  %-7s %12s %14s %18s\n",
                     tau, dk_pulse_shape_str(shape), len_mm, "wave",
                     "GDD fs2", "duration fs", "GDD alone fs");

@@ -428,19 +428,28 @@ cmd_tolerance(int argc, char **argv)
                     lobes[i].outer_fwhm * items[i].scale, flags, extra);
         }
     } else {
-        fprintf(out.f, "%s (data set %s), %s design, %.4g mm long, ", c->id,
-                set->name, qpm ? "QPM" : "birefringent", d.length_mm);
+        char head[512];
+        int hn = snprintf(head, sizeof head,
+                          "%s (data set %s), %s design, %.4g mm long, ", c->id,
+                          set->name, qpm ? "QPM" : "birefringent",
+                          d.length_mm);
+        size_t room = hn > 0 && (size_t)hn < sizeof head
+                          ? sizeof head - (size_t)hn : 0;
         if (qpm)
-            fprintf(out.f, "period %.4f um, phase-matched at %.2f C\n",
-                    d.period_um, d.temp_c);
+            snprintf(head + hn, room, "period %.4f um, phase-matched at "
+                                      "%.2f C",
+                     d.period_um, d.temp_c);
         else if (d.angle.alpha_rad != 0)
-            fprintf(out.f, "modes %s, theta %.3f deg, phi %.2f deg, "
-                           "noncollinear alpha %+.3f deg, %.4g C\n",
-                    d.pol, d.theta_rad / DEG, d.phi_rad / DEG,
-                    d.angle.alpha_rad / DEG, d.temp_c);
+            snprintf(head + hn, room, "modes %s, theta %.3f deg, phi %.2f "
+                                      "deg, noncollinear alpha %+.3f deg, "
+                                      "%.4g C",
+                     d.pol, d.theta_rad / DEG, d.phi_rad / DEG,
+                     d.angle.alpha_rad / DEG, d.temp_c);
         else
-            fprintf(out.f, "modes %s, theta %.3f deg, phi %.2f deg, %.4g C\n",
-                    d.pol, d.theta_rad / DEG, d.phi_rad / DEG, d.temp_c);
+            snprintf(head + hn, room, "modes %s, theta %.3f deg, phi %.2f "
+                                      "deg, %.4g C",
+                     d.pol, d.theta_rad / DEG, d.phi_rad / DEG, d.temp_c);
+        cli_wrap(out.f, "", "    ", head);
         if (d.shg)
             fprintf(out.f, "  SHG of %.6g um\n", d.waves.signal_um);
         else
@@ -449,7 +458,7 @@ cmd_tolerance(int argc, char **argv)
         cli_flags_text(out.f, dk_design_range_flags(&d, &d.waves, d.temp_c),
                        d.shg);
         fputc('\n', out.f);
-        fprintf(out.f, "  %-26s %14s %16s %22s\n", "acceptance (FWHM)",
+        fprintf(out.f, "  %-24s %14s %14s %19s\n", "acceptance (FWHM)",
                 "exact", "first-order", "per length");
         for (size_t i = 0; i < NITEMS; i++) {
             if (!have[i])
@@ -458,7 +467,7 @@ cmd_tolerance(int argc, char **argv)
             if (d.shg && items[i].p == DK_TOL_SIGNAL)
                 name = "fundamental";
             if (have[i] == 2) {
-                fprintf(out.f, "  %-26s %14s\n", name,
+                fprintf(out.f, "  %-24s %14s\n", name,
                         "n/a (set has no T dependence)");
                 continue;
             }
@@ -479,7 +488,7 @@ cmd_tolerance(int argc, char **argv)
                 snprintf(li, sizeof li, "(noncritical)");
             snprintf(pls, sizeof pls, "%.4g %s*%s", pl * items[i].scale,
                      items[i].unit, root ? "cm^1/2" : "cm");
-            fprintf(out.f, "  %-26s %14s %16s %22s\n", name, ex, li,
+            fprintf(out.f, "  %-24s %14s %14s %19s\n", name, ex, li,
                     acc[i].open_lo || acc[i].open_hi ? "" : pls);
         }
         /* What a single number does not say: open sides, more lobes. */
@@ -560,12 +569,15 @@ cmd_tolerance(int argc, char **argv)
                 fprintf(out.f, "\n  %s outside the crystal: about %.4g mrad "
                                "(x n = %.4f, normal incidence)",
                         items[i].key, acc[i].fwhm * 1e3 * nin, nin);
-        fprintf(out.f, "\n\n  exact: where sinc^2(dk L/2) falls to 1/2; "
-                       "first-order: 2x2.783/(L |d dk/dx|); per length: "
-                       "x L (critical) or x sqrt(L) (noncritical)\n"
-                       "  transform limit: the duration of a pulse whose "
-                       "intensity spectrum has this FWHM (Gaussian "
-                       "0.441/dnu, sech2 0.315/dnu)\n");
+        fputs("\n\n", out.f);
+        cli_wrap(out.f, "  ", "  ",
+                 "exact: where sinc^2(dk L/2) falls to 1/2; first-order: "
+                 "2x2.783/(L |d dk/dx|); per length: x L (critical) or "
+                 "x sqrt(L) (noncritical)");
+        cli_wrap(out.f, "  ", "  ",
+                 "transform limit: the duration of a pulse whose intensity "
+                 "spectrum has this FWHM (Gaussian 0.441/dnu, sech2 "
+                 "0.315/dnu)");
     }
     rc = cli_out_commit(&out);
 #undef d

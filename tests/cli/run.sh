@@ -168,7 +168,7 @@ expect gain-low-regime 0 'low-gain estimate \(Gamma L <= 2.794\)' -- gain --crys
 expect gain-high-regime 0 'high-gain estimate \(Gamma L > 2.794\)' -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 3mm --intensity 50GW/cm2
 json_has gain-json-regime "gain_fwhm.regime gain_fwhm.estimate_THz gain_fwhm.low_gain_estimate_THz gain_fwhm.transform_limit_gaussian_fs" -- gain --crystal BBO --pump 800nm --signal 1300nm --type I --length 1mm --intensity 1GW/cm2 --json
 expect pulse-longest 0 'signal-idler \(pump\) +[0-9.]+ +[0-9.]+ +[0-9.]+' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
-expect pulse-after 0 'pulse after 2 mm in its own mode' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
+expect pulse-after 0 'Gaussian pulse after 2 mm' -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --length 2mm
 expect pulse-bad-shape 2 "--shape 'square' must be gaussian or sech2" -- pulse --crystal BBO --pump 800nm --signal 1300nm --type I --duration 30fs --shape square
 expect pulse-rank 0 '^  1 +LiGaS2' -- pulse --crystal GaSe --candidates AgGaS2,LGS --pump 1.65um --signal 2.74um --type I --duration 65fs
 expect pulse-rank-needs-duration 2 '--candidates ranks crystals for a pulse' -- pulse --crystal GaSe --candidates AgGaS2 --pump 1.65um --signal 2.74um --type I
