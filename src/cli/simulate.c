@@ -151,74 +151,85 @@ print_text(FILE *f, dk_design *d, const dk_sim_problem *p,
 {
     const dk_crystal *c = d->crystal;
     int qpm = d->scheme == DK_SCHEME_QPM;
-    fprintf(f, "%s (data set %s), %s design, %.4g mm, %.4g C, ", c->id,
-            d->set->name, qpm ? "QPM" : "birefringent", d->length_mm,
-            d->temp_c);
+    char how[256], dl[256];
     if (qpm)
-        fprintf(f, "period %.4f um (%.4f um at this temperature), order %d, "
-                   "duty %.2f\n",
-                d->period_um, r->qpm_period_um, p->qpm_order ? p->qpm_order
-                                                            : 1,
-                p->qpm_duty);
+        snprintf(how, sizeof how, "period %.4f um (%.4f um at this "
+                                  "temperature), order %d, duty %.2f",
+                 d->period_um, r->qpm_period_um,
+                 p->qpm_order ? p->qpm_order : 1, p->qpm_duty);
     else
-        fprintf(f, "modes %s, theta %.3f deg, phi %.2f deg%s\n", d->pol,
-                d->theta_rad / DK_RAD_PER_DEG, d->phi_rad / DK_RAD_PER_DEG,
-                d->angle.alpha_rad != 0 ? ", noncollinear" : "");
+        snprintf(how, sizeof how, "modes %s, theta %.3f deg, phi %.2f deg%s",
+                 d->pol, d->theta_rad / DK_RAD_PER_DEG,
+                 d->phi_rad / DK_RAD_PER_DEG,
+                 d->angle.alpha_rad != 0 ? ", noncollinear" : "");
+    cli_wrapf(f, "", "    ", "%s (data set %s), %s design, %.4g mm, %.4g C, %s",
+              c->id, d->set->name, qpm ? "QPM" : "birefringent",
+              d->length_mm, d->temp_c, how);
     if (!qpm && d->angle.alpha_rad != 0)
-        fprintf(f, "  signal at %+.3f deg from the pump (internal); each "
-                   "wave's k projected on the pump direction\n",
-                d->angle.alpha_rad / DK_RAD_PER_DEG);
-    fprintf(f, "  d_eff %.3g pm/V%s", p->deff_pm_per_v,
-            qpm ? " (bulk d of the domains, Miller-scaled; the grating "
-                  "averages it to "
-                : "");
-    if (qpm)
-        fprintf(f, "%.3g pm/V)", r->deff_first_order_pm_per_v);
-    if (isfinite(ds->factor))
-        fprintf(f, "; Miller factor %.3f", ds->factor);
-    fputc('\n', f);
+        cli_wrapf(f, "  ", "    ",
+                  "signal at %+.3f deg from the pump (internal); each "
+                  "wave's k projected on the pump direction",
+                  d->angle.alpha_rad / DK_RAD_PER_DEG);
+    int n = snprintf(dl, sizeof dl, "d_eff %.3g pm/V", p->deff_pm_per_v);
+    if (qpm && n > 0 && (size_t)n < sizeof dl)
+        n += snprintf(dl + n, sizeof dl - (size_t)n,
+                      " (bulk d of the domains, Miller-scaled; the grating "
+                      "averages it to %.3g pm/V)",
+                      r->deff_first_order_pm_per_v);
+    if (isfinite(ds->factor) && n > 0 && (size_t)n < sizeof dl)
+        snprintf(dl + n, sizeof dl - (size_t)n, "; Miller factor %.3f",
+                 ds->factor);
+    cli_wrap(f, "  ", "    ", dl);
     cli_flags_text(f, flags, d->shg);
-    fprintf(f, "\n  grid %zu samples, dt %.4g fs, window %.4g ps; step %.4g "
-               "um (%s), %ld steps\n",
-            r->samples, r->dt_fs, r->window_fs * 1e-3, r->step_um,
-            rule_text(r), r->steps);
+    fputc('\n', f);
+    cli_wrapf(f, "  ", "    ",
+              "grid %zu samples, dt %.4g fs, window %.4g ps; step %.4g um "
+              "(%s), %ld steps",
+              r->samples, r->dt_fs, r->window_fs * 1e-3, r->step_um,
+              rule_text(r), r->steps);
     if (r->convergence_checked)
-        fprintf(f, "  convergence: halving the step changed the output "
-                   "energies by %.2g (tolerance %.2g, %d halving%s): %s\n",
-                r->convergence_change, r->tolerance, r->halvings,
-                r->halvings == 1 ? "" : "s",
-                r->converged ? "converged" : "NOT converged");
+        cli_wrapf(f, "  ", "    ",
+                  "convergence: %s (halving the step changed the output "
+                  "energies by %.2g; tolerance %.2g, %d halving%s)",
+                  r->converged ? "converged" : "NOT converged",
+                  r->convergence_change, r->tolerance, r->halvings,
+                  r->halvings == 1 ? "" : "s");
     else
         fprintf(f, "  convergence: not checked (--no-check)\n");
-    fprintf(f, "  Manley-Rowe: photon-number invariants kept to %.2g "
-               "(relative, worst point along z)\n",
-            r->manley_rowe_defect);
+    cli_wrapf(f, "  ", "    ",
+              "Manley-Rowe: photon-number invariants kept to %.2g "
+              "(relative, worst point along z)",
+              r->manley_rowe_defect);
     int energy = area > 0;
-    fprintf(f, "\n  %-16s %9s %16s %16s %11s %11s %11s %9s %17s\n", "wave",
-            "um", energy ? "energy in" : "fluence in",
-            energy ? "energy out" : "fluence out", "peak GW/cm2",
-            "FWHM in fs", "FWHM out fs", "TL out fs", "band out um");
+    /* two tables of at most 71 columns: amounts, then durations */
+    fprintf(f, "\n  %-12s %8s %17s %17s %11s\n", "wave", "um",
+            energy ? "energy in" : "fluence in",
+            energy ? "energy out" : "fluence out", "peak GW/cm2");
     for (int j = 0; j < 3; j++) {
         const dk_sim_wave_out *w = &r->wave[j];
         if (!w->present)
             continue;
-        fprintf(f, "  %-16s %9.5g ", p->wave[j].name, w->lambda_um);
+        fprintf(f, "  %-12s %8.5g ", p->wave[j].name, w->lambda_um);
         print_amount(f, amount(r, j, 0, energy), energy);
         fputc(' ', f);
         print_amount(f, amount(r, j, 1, energy), energy);
-        char fin[24];
-        if (isfinite(w->fwhm_in_fs))
-            snprintf(fin, sizeof fin, "%.4g", w->fwhm_in_fs);
-        else
-            snprintf(fin, sizeof fin, "-");
-        char fout[24], tout[24];
+        fprintf(f, " %11.4g\n", w->peak_out_gw_per_cm2);
+    }
+    fprintf(f, "\n  %-12s %11s %11s %9s %17s\n", "wave", "FWHM in fs",
+            "FWHM out fs", "TL out fs", "band out um");
+    for (int j = 0; j < 3; j++) {
+        const dk_sim_wave_out *w = &r->wave[j];
+        if (!w->present)
+            continue;
+        char fin[24], fout[24], tout[24];
+        snprintf(fin, sizeof fin, isfinite(w->fwhm_in_fs) ? "%.4g" : "-",
+                 w->fwhm_in_fs);
         snprintf(fout, sizeof fout, isfinite(w->fwhm_out_fs) ? "%.4g" : "-",
                  w->fwhm_out_fs);
         snprintf(tout, sizeof tout,
                  isfinite(w->transform_limit_out_fs) ? "%.4g" : "-",
                  w->transform_limit_out_fs);
-        fprintf(f, " %11.4g %11s %11s %9s", w->peak_out_gw_per_cm2, fin, fout,
-                tout);
+        fprintf(f, "  %-12s %11s %11s %9s", p->wave[j].name, fin, fout, tout);
         if (isfinite(w->band_um[0]))
             fprintf(f, " %8.4g-%-8.4g", w->band_um[0], w->band_um[1]);
         fputc('\n', f);
@@ -241,13 +252,15 @@ print_text(FILE *f, dk_design *d, const dk_sim_problem *p,
                     (r->wave[0].fluence_in_j_per_cm2 +
                      (r->wave[1].present ? r->wave[1].fluence_in_j_per_cm2
                                          : 0)));
-    fprintf(f, "\n  FWHM: intensity, outermost half-maximum points; TL: "
-               "the same spectrum with a flat phase; band: 99.9 %% of the "
-               "energy\n");
+    fputc('\n', f);
+    cli_wrap(f, "  ", "  ",
+             "FWHM: intensity, outermost half-maximum points; TL: the same "
+             "spectrum with a flat phase; band: 99.9 % of the energy");
     if (energy)
-        fprintf(f, "  energies of a beam of 1/e^2 radius %.4g mm taken as "
-                   "its centre's plane wave over pi w^2/2\n",
-                sqrt(2 * area / M_PI) * 10);
+        cli_wrapf(f, "  ", "  ",
+                  "energies of a beam of 1/e^2 radius %.4g mm taken as its "
+                  "centre's plane wave over pi w^2/2",
+                  sqrt(2 * area / M_PI) * 10);
     (void)HBAR_J_FS;
 }
 
@@ -727,11 +740,14 @@ run_mix(const int *mode, dk_design *d, const dk_sim_problem *p,
                 m->kind == DK_MIX_OPA ? "narrowband-pump gain"
                                       : "low-conversion",
                 kname, gname);
-        fprintf(out.f, "  (inputs undepleted; each pair of input "
-                       "frequencies with its own phase mismatch over the "
-                       "crystal, h = e^{-iqL/2} sinc(qL/2))\n\n");
-        fprintf(out.f, "  %s: centre %.5g um (%.5g THz), spectral FWHM %.4g "
-                       "THz, transform limit %.4g fs\n",
+        cli_wrap(out.f, "  ", "   ",
+                 "(inputs undepleted; each pair of input frequencies with "
+                 "its own phase mismatch over the crystal, h = e^{-iqL/2} "
+                 "sinc(qL/2))");
+        fputc('\n', out.f);
+        cli_wrapf(out.f, "  ", "    ",
+                  "%s: centre %.5g um (%.5g THz), spectral FWHM %.4g THz, "
+                  "transform limit %.4g fs",
                 gname, 299.792458 / m->centre_thz, m->centre_thz, m->fwhm_thz,
                 m->transform_limit_fs);
         fprintf(out.f, "  fluence %.4g mJ/cm2", m->fluence_j_per_cm2[g] * 1e3);
