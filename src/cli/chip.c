@@ -264,18 +264,21 @@ cmd_chip(int argc, char **argv)
                     g[i].t_hi_c,
                     cli_csv_flags(gflags[i], 0, flags, sizeof flags));
     } else {
-        fprintf(out.f, "%s (data set %s), pump %.6g um: %d gratings cover "
-                       "the %s from %.4g to %.4g um\nwith the oven at "
-                       "%.4g-%.4g C (neighbours overlap by %.0f %%; periods "
-                       "as written at %.4g C)\n\n",
-                c->id, set->name, pump_um, ng, target, range[0], range[1],
-                oven_c[0], oven_c[1], overlap * 100, written_c);
-        fprintf(out.f, "  %-3s %12s   %-24s %s\n", "#", "period um",
+        fprintf(out.f, "%s (data set %s), pump %.6g um:\n", c->id,
+                set->name, pump_um);
+        cli_wrapf(out.f, "  ", "  ",
+                  "%d gratings cover the %s from %.4g to %.4g um with the "
+                  "oven at %.4g-%.4g C (neighbours overlap by %.0f %%; "
+                  "periods as written at %.4g C)",
+                  ng, target, range[0], range[1], oven_c[0], oven_c[1],
+                  overlap * 100, written_c);
+        fputc('\n', out.f);
+        fprintf(out.f, "  %-2s %9s   %-19s %s\n", "#", "period um",
                 signal ? "signal range um" : "idler range um",
-                "oven C (at low, at high end)");
+                "oven C at low, high end");
         for (int i = 0; i < ng; i++) {
             char buf[96];
-            fprintf(out.f, "  %-3d %12.4f   %8.4f - %-13.4f %6.1f, %6.1f%s%s%s\n",
+            fprintf(out.f, "  %-2d %9.4f   %7.4f - %-9.4f %6.1f, %6.1f%s%s%s\n",
                     i + 1, g[i].period_um, g[i].lo_um, g[i].hi_um,
                     g[i].t_lo_c, g[i].t_hi_c,
                     gflags[i] ? "  [extrapolated: " : "",

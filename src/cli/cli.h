@@ -112,7 +112,7 @@ void cli_flags_text(FILE *f, unsigned range, int shg);
  * before each further one, a newline at the end (wrap.c). */
 void cli_wrap(FILE *f, const char *lead, const char *hang, const char *text);
 
-/* The same for a printf-style text (up to 2 kB). */
+/* The same for a printf-style text. */
 void cli_wrapf(FILE *f, const char *lead, const char *hang, const char *fmt,
                ...)
 #if defined(__GNUC__)

@@ -170,7 +170,7 @@ print_set(FILE *f, const dk_dispersion_set *s, int is_default,
             : is_qpm_default             ? " (default for QPM)"
                                          : "",
             s->from_memory ? "  [typed from memory, not yet checked]" : "");
-    fprintf(f, "    source       %s\n", s->citation);
+    cli_wrap(f, "    source       ", "                 ", s->citation);
     if (s->doi)
         fprintf(f, "    doi          %s\n", s->doi);
     fprintf(f, "    fitted over  %g-%g um", s->wavelength_range_um[0],
@@ -182,17 +182,21 @@ print_set(FILE *f, const dk_dispersion_set *s, int is_default,
         fprintf(f, ", at %g C", s->reference_temperature_c);
     fputc('\n', f);
     for (int i = 0; i < s->naxes; i++) {
-        fprintf(f, "    axis %c       %s\n", s->axes[i].label,
-                s->axes[i].formula);
+        char lead[32];
+        snprintf(lead, sizeof lead, "    axis %c       ", s->axes[i].label);
+        cli_wrap(f, lead, "                 ", s->axes[i].formula);
         if (s->axes[i].citation)
-            fprintf(f, "                 (from %s)\n", s->axes[i].citation);
+            cli_wrapf(f, "                 ", "                 ", "(from %s)", s->axes[i].citation);
     }
     if (s->has_thermo)
-        fprintf(f, "    dn/dT        %s, %g-%g C\n                 (%s)\n",
-                s->thermo.formula, s->thermo.temperature_range_c[0],
-                s->thermo.temperature_range_c[1], s->thermo.citation);
+    {
+        cli_wrapf(f, "    dn/dT        ", "                 ", "%s, %g-%g C", s->thermo.formula,
+                  s->thermo.temperature_range_c[0],
+                  s->thermo.temperature_range_c[1]);
+        cli_wrapf(f, "                 ", "                 ", "(%s)", s->thermo.citation);
+    }
     if (s->note)
-        fprintf(f, "    note         %s\n", s->note);
+        cli_wrap(f, "    note         ", "                 ", s->note);
 }
 
 static void
@@ -205,9 +209,9 @@ print_one(FILE *f, const dk_crystal *c)
         fprintf(f, " %s", c->aliases[i]);
     fprintf(f, "\n  class        %s, point group %s\n",
             dk_optical_class_str(c->optical_class), c->point_group);
-    fprintf(f, "  frame        %s\n", c->frame);
-    fprintf(f, "  transparent  %g-%g um (%s)\n", c->transparency_um[0],
-            c->transparency_um[1], c->transparency_source);
+    cli_wrap(f, "  frame        ", "               ", c->frame);
+    cli_wrapf(f, "  transparent  ", "               ", "%g-%g um (%s)", c->transparency_um[0],
+              c->transparency_um[1], c->transparency_source);
     fprintf(f, "  QPM          %s", poling_str(c->poling));
     if (c->poling != DK_POLING_NONE)
         fprintf(f, "; polar axis %s, grating along %s",
@@ -218,15 +222,16 @@ print_one(FILE *f, const dk_crystal *c)
                                                             &why_a);
     const dk_dispersion_set *def_q = dk_crystal_default_set(c, DK_USE_QPM,
                                                             &why_q);
-    fprintf(f, "  default set  %s: %s\n", def_a->name, why_a);
+    cli_wrapf(f, "  default set  ", "               ", "%s: %s", def_a->name, why_a);
     if (c->poling != DK_POLING_NONE || def_q != def_a)
-        fprintf(f, "  QPM default  %s: %s\n", def_q->name, why_q);
+        cli_wrapf(f, "  QPM default  ", "               ", "%s: %s", def_q->name, why_q);
     for (int i = 0; i < c->nsets; i++)
         print_set(f, &c->sets[i], &c->sets[i] == def_a,
                   &c->sets[i] == def_q);
     if (c->has_expansion) {
-        fprintf(f, "\n  thermal expansion (reference %g C; %s)\n",
-                c->expansion_reference_c, c->expansion_citation);
+        fputc('\n', f);
+        cli_wrapf(f, "  ", "    ", "thermal expansion (reference %g C; %s)",
+                  c->expansion_reference_c, c->expansion_citation);
         for (int i = 0; i < 3; i++)
             if (c->expansion[i].present)
                 fprintf(f, "    %s  alpha %.4g /C, beta %.4g /C^2\n",
@@ -234,10 +239,12 @@ print_one(FILE *f, const dk_crystal *c)
                         c->expansion[i].beta_per_c2);
     }
     if (c->has_nonlinear) {
-        fprintf(f, "\n  nonlinear coefficients at %g um%s (%s)\n",
-                c->nl_wavelength_um,
-                c->nl_from_memory ? " [from memory]" : "", c->nl_citation);
-        fprintf(f, "    convention: %s\n   ", c->nl_convention);
+        fputc('\n', f);
+        cli_wrapf(f, "  ", "    ", "nonlinear coefficients at %g um%s (%s)",
+                  c->nl_wavelength_um,
+                  c->nl_from_memory ? " [from memory]" : "", c->nl_citation);
+        cli_wrapf(f, "    ", "      ", "convention: %s", c->nl_convention);
+        fputs("   ", f);
         for (int i = 0; i < c->nd; i++)
             fprintf(f, " %s = %g pm/V%s", c->d_names[i], c->d_values[i],
                     i + 1 < c->nd ? "," : "\n");
@@ -246,18 +253,19 @@ print_one(FILE *f, const dk_crystal *c)
         c->has_damage) {
         fprintf(f, "\n  cautions\n");
         for (int i = 0; i < c->ncautions; i++)
-            fprintf(f, "    - %s\n", c->cautions[i]);
+            cli_wrap(f, "    - ", "      ", c->cautions[i]);
         for (int i = 0; i < c->ncaution_ranges; i++)
-            fprintf(f, "    - %s %g C: %s\n",
+            cli_wrapf(f, "    - ", "      ", "%s %g C: %s",
                     c->caution_ranges[i].below ? "below" : "above",
                     c->caution_ranges[i].temp_c, c->caution_ranges[i].text);
         for (int i = 0; i < c->nwavelength_cautions; i++)
-            fprintf(f, "    - a wave %s %g um: %s\n",
+            cli_wrapf(f, "    - ", "      ", "a wave %s %g um: %s",
                     c->wavelength_cautions[i].below ? "below" : "above",
                     c->wavelength_cautions[i].lambda_um,
                     c->wavelength_cautions[i].text);
         if (c->has_damage)
-            fprintf(f, "    - damage threshold about %g GW/cm^2 (%s; %s)\n",
+            cli_wrapf(f, "    - ", "      ",
+                      "damage threshold about %g GW/cm^2 (%s; %s)",
                     c->damage_gw_per_cm2, c->damage_pulse, c->damage_source);
     }
 }

@@ -89,8 +89,9 @@ print_table(FILE *f, const dk_crystal *c, const row *rows, int n,
         const row *r = &rows[i];
         if (r->set != cur) {
             cur = r->set;
-            fprintf(f, "\ndata set %s%s: %s\n", cur->name,
-                    cur->from_memory ? " [from memory]" : "", cur->citation);
+            fputc('\n', f);
+            cli_wrapf(f, "", "    ", "data set %s%s: %s", cur->name,
+                      cur->from_memory ? " [from memory]" : "", cur->citation);
             fprintf(f, "  %-4s %10s %12s %13s %13s %12s\n", "axis", "n",
                     "group index", "GVD fs2/mm", "TOD fs3/mm", "dn/dT 1/C");
         }

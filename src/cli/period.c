@@ -214,8 +214,9 @@ print_text(FILE *f, const dk_design *d, const dk_set_outcome *sets,
            int nsets, const dk_spread *spread)
 {
     const dk_solution *c = &d->sol[d->chosen];
-    fprintf(f, "%s, QPM order %d, duty cycle %.2g, polarisations %c %c %c "
-               "(signal idler pump, type %s), beam along %c\n",
+    cli_wrapf(f, "", "    ",
+              "%s, QPM order %d, duty cycle %.2g, polarisations %c %c %c "
+              "(signal idler pump, type %s), beam along %c",
             d->crystal->id, d->qpm.order, d->qpm.duty, d->pol[0], d->pol[1],
             d->pol[2], c->type, "XYZ"[d->crystal->grating_axis]);
     if (!sets) {

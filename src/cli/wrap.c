@@ -14,6 +14,7 @@
  */
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "cli.h"
@@ -72,10 +73,22 @@ cli_wrap(FILE *f, const char *lead, const char *hang, const char *text)
 void
 cli_wrapf(FILE *f, const char *lead, const char *hang, const char *fmt, ...)
 {
-    char buf[2048];
+    char small[1024], *buf = small;
     va_list ap;
     va_start(ap, fmt);
-    vsnprintf(buf, sizeof buf, fmt, ap);
+    int n = vsnprintf(small, sizeof small, fmt, ap);
     va_end(ap);
+    if (n < 0)
+        return;
+    /* a crystal file's note may be long: never cut it */
+    if ((size_t)n >= sizeof small && (buf = malloc((size_t)n + 1))) {
+        va_start(ap, fmt);
+        vsnprintf(buf, (size_t)n + 1, fmt, ap);
+        va_end(ap);
+    } else if (!buf) {
+        buf = small;
+    }
     cli_wrap(f, lead, hang, buf);
+    if (buf != small)
+        free(buf);
 }

@@ -63,7 +63,8 @@ expect no-command 2 'usage: deltak' --
 expect crystals-list 0 'MgO:LiNbO3' -- crystals
 expect crystals-one 0 'Gayer2008' -- crystals mgo:ln
 expect crystals-alias-ci 0 'KTiOPO4' -- crystals ppktp
-expect crystals-qpm-default 0 'QPM default  Fradkin1999: .*46\.22' -- crystals KTP
+expect crystals-qpm-default 0 'QPM default  Fradkin1999: fitted to poled' -- crystals KTP
+expect crystals-qpm-default-why 0 'type-II 775 -> 1550 nm gives 46\.22 um' -- crystals KTP
 expect crystals-unknown 1 "unknown crystal 'unobtainium'" -- crystals unobtainium
 expect index-table 0 'group index' -- index --crystal MgO:LN --wavelength 1064nm --temp 40
 expect index-bare-number 2 'has no unit.*1064nm' -- index --crystal MgO:LN --wavelength 1064
