@@ -73,8 +73,29 @@ cli_error(const char *fmt, ...)
 void
 cli_print_usage(FILE *f, const char *const usage[])
 {
-    for (int i = 0; usage[i]; i++)
-        fprintf(f, "%s%s\n", i == 0 ? "usage: " : "", usage[i]);
+    for (int i = 0; usage[i]; i++) {
+        const char *u = usage[i], *lead = i == 0 ? "usage: " : "";
+        if (strlen(lead) + strlen(u) <= CLI_WIDTH) {
+            fprintf(f, "%s%s\n", lead, u);
+            continue;
+        }
+        /* A term and its description ("  --x <v>     what it does", two
+         * spaces or more between them) keep the term as it is and fold
+         * the description under itself; other lines fold 4 columns in
+         * from their indent. */
+        size_t ind = strspn(u, " "), hang = strlen(lead) + ind + 4;
+        size_t body = ind;   /* where the folded text starts */
+        const char *gap = strstr(u + ind, "  ");
+        if (gap) {
+            body = (size_t)(gap - u) + strspn(gap, " ");
+            if (body < 40)
+                hang = body;
+        }
+        char h[48], l[160];
+        snprintf(h, sizeof h, "%*s", (int)(hang < 47 ? hang : 47), "");
+        snprintf(l, sizeof l, "%s%.*s", lead, (int)body, u);
+        cli_wrap(f, l, h, u + body);
+    }
 }
 
 int

@@ -46,7 +46,7 @@ const cli_cmd cli_commands[] = {
     {"run", cmd_run, 0,
      "carry out a design file: every step, figures and a report"},
     {"simulate", cmd_simulate, 1,
-     "pulsed three-wave mixing along the crystal: spectra, pulses, energies"},
+     "pulsed three-wave mixing: spectra, pulses, energies along z"},
     {"sweep", cmd_sweep, 1,
      "tuning curves (1-D) and phase-matching maps (2-D), with --plot"},
     {"tolerance", cmd_tolerance, 1,
