@@ -175,6 +175,20 @@ cli_design_make(const dk_design_request *rq, dk_design *d, int solve)
     return 0;
 }
 
+json_object *
+cli_design_json(const dk_design *d)
+{
+    json_object *o = json_object_new_object();
+    json_object_object_add(o, "crystal", json_object_new_string(d->crystal->id));
+    json_object_object_add(o, "dispersion",
+                           json_object_new_string(d->set->name));
+    json_object_object_add(o, "design",
+                           json_object_new_string(d->scheme == DK_SCHEME_QPM
+                                                      ? "qpm"
+                                                      : "birefringent"));
+    return o;
+}
+
 int
 cli_design_open(const cli_common *cm, const cli_design_args *a,
                 unsigned allowed, int need_waves, int solve,

@@ -103,6 +103,10 @@ int cli_design_request(const cli_design_args *a, unsigned allowed,
  */
 int cli_design_make(const dk_design_request *rq, dk_design *d, int solve);
 
+/* A new JSON object opening as every design command's answer does:
+ * "crystal", "dispersion" and "design" (qpm or birefringent). */
+json_object *cli_design_json(const dk_design *d);
+
 /*
  * The start every design command shares: load the database, find the
  * crystal of --crystal, read the design options (@allowed, @need_waves as

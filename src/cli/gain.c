@@ -155,13 +155,7 @@ cmd_gain(int argc, char **argv)
     }
     if (isfinite(inten))
         damage_check(c, inten);
-    o = json_object_new_object();
-    json_object_object_add(o, "crystal", json_object_new_string(c->id));
-    json_object_object_add(o, "dispersion",
-                           json_object_new_string(d.set->name));
-    json_object_object_add(o, "design",
-                           json_object_new_string(qpm ? "qpm"
-                                                      : "birefringent"));
+    o = cli_design_json(&d);
     json_object_object_add(o, "length_mm", cli_json_num(d.length_mm));
     json_object_object_add(o, "temperature_C", cli_json_num(d.temp_c));
     json_object_object_add(o, "deff_pm_per_V", cli_json_num(deff));

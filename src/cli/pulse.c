@@ -401,13 +401,7 @@ cmd_pulse(int argc, char **argv)
     if (cli_out_open(&out))
         goto done;
     if (cm.json) {
-        json_object *o = json_object_new_object();
-        json_object_object_add(o, "crystal", json_object_new_string(c->id));
-        json_object_object_add(o, "dispersion",
-                               json_object_new_string(set->name));
-        json_object_object_add(o, "design",
-                               json_object_new_string(qpm ? "qpm"
-                                                          : "birefringent"));
+        json_object *o = cli_design_json(&d);
         json_object_object_add(o, "temperature_C", cli_json_num(d.temp_c));
         json_object *wl = json_object_new_object();
         json_object_object_add(wl, "signal", cli_json_num(d.waves.signal_um));

@@ -337,14 +337,7 @@ static json_object *
 json_result(dk_design *d, const dk_sim_problem *p, const dk_sim_result *r,
             double area, unsigned flags)
 {
-    json_object *o = json_object_new_object();
-    json_object_object_add(o, "crystal", json_object_new_string(d->crystal->id));
-    json_object_object_add(o, "dispersion",
-                           json_object_new_string(d->set->name));
-    json_object_object_add(o, "design",
-                           json_object_new_string(d->scheme == DK_SCHEME_QPM
-                                                      ? "qpm"
-                                                      : "birefringent"));
+    json_object *o = cli_design_json(d);
     json_object_object_add(o, "process",
                            json_object_new_string(dk_process_str(d->process)));
     json_object_object_add(o, "length_mm", cli_json_num(d->length_mm));

@@ -263,13 +263,7 @@ cmd_tolerance(int argc, char **argv)
             thz[i] = dk_interval_thz(acc[i].lo, acc[i].hi);
     }
     if (cm.json) {
-        json_object *o = json_object_new_object();
-        json_object_object_add(o, "crystal", json_object_new_string(c->id));
-        json_object_object_add(o, "dispersion",
-                               json_object_new_string(set->name));
-        json_object_object_add(o, "design",
-                               json_object_new_string(qpm ? "qpm"
-                                                          : "birefringent"));
+        json_object *o = cli_design_json(&d);
         json_object_object_add(o, "length_mm", cli_json_num(d.length_mm));
         json_object_object_add(o, "temperature_C", cli_json_num(d.temp_c));
         if (qpm)
