@@ -12,6 +12,16 @@
 #include "deltak/dispersion.h"
 
 /*
+ * dk_transparency_check:
+ * DK_OK when @lambda_um lies inside @c's transparency range, else
+ * DK_ERANGE with the message "[the @wave (]λ um[)] is outside the
+ * transparency range lo-hi um of <crystal>" (λ printed with enough digits
+ * to differ from the edge). @wave (e.g. "idler") may be NULL.
+ */
+dk_status dk_transparency_check(const dk_crystal *c, double lambda_um,
+                                const char *wave, dk_error *err);
+
+/*
  * dk_material_index:
  * @c: the crystal
  * @set: one of @c's data sets

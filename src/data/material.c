@@ -9,23 +9,37 @@
 #include "deltak/material.h"
 #include "deltak/text.h"
 
+dk_status
+dk_transparency_check(const dk_crystal *c, double lambda_um, const char *wave,
+                      dk_error *err)
+{
+    if (lambda_um >= c->transparency_um[0] &&
+        lambda_um <= c->transparency_um[1])
+        return DK_OK;
+    char v[32], lo[32], hi[32];
+    dk_format_against_range(lambda_um, c->transparency_um[0],
+                            c->transparency_um[1], v, sizeof v);
+    dk_format_exact(c->transparency_um[0], lo, sizeof lo);
+    dk_format_exact(c->transparency_um[1], hi, sizeof hi);
+    if (wave)
+        return dk_error_set(err, DK_ERANGE,
+                            "the %s (%s um) is outside the transparency "
+                            "range %s-%s um of %s",
+                            wave, v, lo, hi, c->id);
+    return dk_error_set(err, DK_ERANGE,
+                        "%s um is outside the transparency range %s-%s um "
+                        "of %s",
+                        v, lo, hi, c->id);
+}
+
 /* The axis of @set for (λ) inside @c's transparency range, or an error. */
 static dk_status
 checked_axis(const dk_crystal *c, const dk_dispersion_set *set, char axis,
              double lambda_um, const dk_axis_formula **ax, dk_error *err)
 {
-    if (!(lambda_um >= c->transparency_um[0] &&
-          lambda_um <= c->transparency_um[1])) {
-        char v[32], lo[32], hi[32];
-        dk_format_against_range(lambda_um, c->transparency_um[0],
-                                c->transparency_um[1], v, sizeof v);
-        dk_format_exact(c->transparency_um[0], lo, sizeof lo);
-        dk_format_exact(c->transparency_um[1], hi, sizeof hi);
-        return dk_error_set(err, DK_ERANGE,
-                            "%s um is outside the transparency range %s-%s "
-                            "um of %s",
-                            v, lo, hi, c->id);
-    }
+    dk_status s = dk_transparency_check(c, lambda_um, NULL, err);
+    if (s)
+        return s;
     *ax = dk_set_find_axis(set, axis);
     if (!*ax)
         return dk_error_set(err, DK_ENOTFOUND,

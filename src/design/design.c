@@ -13,7 +13,7 @@
 
 #include "deltak/constants.h"
 #include "deltak/design.h"
-#include "deltak/text.h"
+#include "deltak/material.h"
 #include "design_internal.h"
 
 void
@@ -243,20 +243,11 @@ check_transparency(const dk_design *d, const dk_waves *w, dk_error *err)
     const dk_crystal *c = d->crystal;
     const double lam[3] = {w->signal_um, w->idler_um, w->pump_um};
     for (int k = 0; k < 3; k++) {
-        if (!(lam[k] > 0))
-            continue;
-        if (lam[k] < c->transparency_um[0] ||
-            lam[k] > c->transparency_um[1]) {
-            char v[32], lo[32], hi[32];
-            dk_format_against_range(lam[k], c->transparency_um[0],
-                                    c->transparency_um[1], v, sizeof v);
-            dk_format_exact(c->transparency_um[0], lo, sizeof lo);
-            dk_format_exact(c->transparency_um[1], hi, sizeof hi);
-            return dk_error_set(err, DK_ERANGE,
-                                "the %s (%s um) is outside the transparency "
-                                "range %s-%s um of %s",
-                                dk_design_wave_name(d, k), v, lo, hi, c->id);
-        }
+        dk_status s = lam[k] > 0 ? dk_transparency_check(
+                                       c, lam[k], dk_design_wave_name(d, k), err)
+                                 : DK_OK;
+        if (s)
+            return s;
     }
     return DK_OK;
 }
