@@ -268,6 +268,8 @@ no_stdout sweep-no-solution-quiet sweep --crystal BBO --fundamental 1064nm --typ
 expect sweep-huge-range 2 'outside what a sweep takes' -- sweep --crystal MgO:LN --pump 1064nm --idler 3.4um --vary temp=20:1e308:5 --solve period
 expect broadband-degenerate 0 'o o e +- +29\.2[0-9]* +90\.000 +1\.9' -- angle --crystal BBO --pump 400nm --signal 800nm --broadband
 expect exact-bound 1 '0\.3499999 um is outside the transparency range 0\.35-5 um' -- index --crystal MgO:LN --wavelength 0.3499999um
+# A design names the wave that is outside (ZGP opens at 0.74 um, crystal file).
+expect design-opaque-wave 1 'the pump \(0\.72 um\) is outside the transparency range 0\.74-12 um of ZnGeP2' -- angle --crystal ZGP --pump 720nm --idler 8um
 expect no-pm-exit 1 'does not phase-match' -- angle --crystal BBO --fundamental 400nm --type I
 "$DK" index --crystal "$(printf 'BB\033[2JO')" --wavelength 1um 2>"$tmp/err" >/dev/null
 if grep -q 'BB\\x1b\[2JO' "$tmp/err" && ! grep -q "$(printf '\033')" "$tmp/err"; then
