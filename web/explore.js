@@ -518,15 +518,8 @@ async function updateQpm(signal, note) {
                              ["vary", "temp=20:200:91"],
                              ["solve", "wavelengths"]]);
     }
-    if (!operating) {
-        note(tuning, "tuning.svg");
-        const tf = await showFigure("tuning", tuning, signal);
-        setNotes("tuning-notes", notesOf(tf));
-        clearFigure("acceptance");
-        showAcceptance({}, null);
-        showPulse({error: "no operating point"});
-        return;
-    }
+    if (!operating)
+        return showTuningAlone(signal, note, tuning, "no operating point");
     await analyses(signal, note, operating, tuning, "temperature");
 }
 
@@ -610,16 +603,20 @@ async function updateAngle(signal, note) {
     setNumbers("op-numbers", rows);
     if (shg)
         setNotes("op-notes", opItems);
-    if (!operating) {
-        note(tuning, "tuning.svg");
-        const tf = await showFigure("tuning", tuning, signal);
-        setNotes("tuning-notes", notesOf(tf));
-        clearFigure("acceptance");
-        showAcceptance({}, null);
-        showPulse({error: "no signal and idler phase-match at this angle"});
-        return;
-    }
+    if (!operating)
+        return showTuningAlone(signal, note, tuning,
+                               "no signal and idler phase-match at this angle");
     await analyses(signal, note, operating, tuning, "theta");
+}
+
+/* No operating point: the tuning figure alone, the analyses emptied. */
+async function showTuningAlone(signal, note, tuning, why) {
+    note(tuning, "tuning.svg");
+    const tf = await showFigure("tuning", tuning, signal);
+    setNotes("tuning-notes", notesOf(tf));
+    clearFigure("acceptance");
+    showAcceptance({}, null);
+    showPulse({error: why});
 }
 
 /* ---- Controls ---------------------------------------------------------- */

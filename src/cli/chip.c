@@ -202,14 +202,8 @@ cmd_chip(int argc, char **argv)
                                json_object_new_string(set->name));
         json_object_object_add(o, "pump_um", cli_json_num(pump_um));
         json_object_object_add(o, "target", json_object_new_string(target));
-        json_object *tr = json_object_new_array();
-        json_object_array_add(tr, cli_json_num(range[0]));
-        json_object_array_add(tr, cli_json_num(range[1]));
-        json_object_object_add(o, "target_range_um", tr);
-        json_object *ov = json_object_new_array();
-        json_object_array_add(ov, cli_json_num(oven_c[0]));
-        json_object_array_add(ov, cli_json_num(oven_c[1]));
-        json_object_object_add(o, "oven_C", ov);
+        json_object_object_add(o, "target_range_um", cli_json_range(range));
+        json_object_object_add(o, "oven_C", cli_json_range(oven_c));
         json_object_object_add(o, "written_temperature_C",
                                cli_json_num(written_c));
         json_object *arr = json_object_new_array();

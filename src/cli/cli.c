@@ -608,6 +608,15 @@ cli_json_num(double v)
     return json_object_new_double_s(v, buf);
 }
 
+json_object *
+cli_json_range(const double r[2])
+{
+    json_object *a = json_object_new_array();
+    json_object_array_add(a, cli_json_num(r[0]));
+    json_object_array_add(a, cli_json_num(r[1]));
+    return a;
+}
+
 int
 cli_parse_waves(const cli_wave_args *a, int need_two, dk_waves *w, int *shg,
                 const char *const usage[])

@@ -207,6 +207,9 @@ void cli_out_json(cli_out *o, json_object *obj);
 /* A double for JSON, rounded to 12 significant digits. */
 json_object *cli_json_num(double v);
 
+/* [lo, hi] of @r as a JSON array of two numbers. */
+json_object *cli_json_range(const double r[2]);
+
 
 /* Options every crystal command takes. */
 typedef struct cli_common {

@@ -271,15 +271,6 @@ print_one(FILE *f, const dk_crystal *c)
 }
 
 static json_object *
-json_range(const double r[2])
-{
-    json_object *a = json_object_new_array();
-    json_object_array_add(a, cli_json_num(r[0]));
-    json_object_array_add(a, cli_json_num(r[1]));
-    return a;
-}
-
-static json_object *
 crystal_json(const dk_crystal *c, int full)
 {
     json_object *o = json_object_new_object();
@@ -297,7 +288,7 @@ crystal_json(const dk_crystal *c, int full)
     json_object_object_add(o, "point_group",
                            json_object_new_string(c->point_group));
     json_object_object_add(o, "transparency_um",
-                           json_range(c->transparency_um));
+                           cli_json_range(c->transparency_um));
     json_object_object_add(o, "poling",
                            json_object_new_string(poling_str(c->poling)));
     json_object *sets = json_object_new_array();
@@ -313,9 +304,9 @@ crystal_json(const dk_crystal *c, int full)
                 json_object_object_add(so, "doi",
                                        json_object_new_string(s->doi));
             json_object_object_add(so, "wavelength_range_um",
-                                   json_range(s->wavelength_range_um));
+                                   cli_json_range(s->wavelength_range_um));
             json_object_object_add(so, "temperature_range_C",
-                                   json_range(s->temperature_range_c));
+                                   cli_json_range(s->temperature_range_c));
             json_object_object_add(so, "temperature_dependent",
                                    json_object_new_boolean(
                                        dk_set_has_temperature(s)));
