@@ -532,6 +532,68 @@ opa_gain_spectrum(void **state)
     dk_mix_result_free(m);
 }
 
+/* Range flags of simulated bands: MgO:LN Gayer2008 is fitted over
+ * 0.5-4 um (crystal file), so an idler band reaching 4.5 um is flagged as
+ * the idler and noted; a signal band inside is not. */
+static void
+simulated_band_flags(void **state)
+{
+    (void)state;
+    dk_design d;
+    test_design(&d, "MgO:LN", "Gayer2008", opa(1.064, 1.5497), 0, 40, NULL,
+                DK_SCHEME_QPM, 10);
+    dk_sim_result r;
+    memset(&r, 0, sizeof r);
+    r.wave[0].present = 1;
+    r.wave[0].band_um[0] = 1.50, r.wave[0].band_um[1] = 1.60;
+    r.wave[1].present = 1;
+    r.wave[1].band_um[0] = 3.0, r.wave[1].band_um[1] = 4.5;
+    r.wave[2].present = 0;
+    dk_notes n;
+    dk_notes_clear(&n);
+    unsigned f = dk_design_sim_band_flags(&d, &r, &n);
+    assert_int_equal(f & (DK_RANGE_SIGNAL | DK_RANGE_IDLER | DK_RANGE_PUMP),
+                     DK_RANGE_IDLER);
+    assert_true(n.n >= 1);
+    /* both bands inside: no flag, no note */
+    r.wave[1].band_um[1] = 3.9;
+    dk_notes_clear(&n);
+    f = dk_design_sim_band_flags(&d, &r, &n);
+    assert_int_equal(f & (DK_RANGE_SIGNAL | DK_RANGE_IDLER | DK_RANGE_PUMP),
+                     0);
+    assert_int_equal(n.n, 0);
+}
+
+/* The pulse's limit over the pairs is the shortest of the pairs' longest
+ * crystals, with that pair; the merit is (d_eff L)^2 / (n_s n_i n_p). */
+static void
+pulse_limit_over_pairs(void **state)
+{
+    (void)state;
+    dk_design d;
+    test_design(&d, "BBO", NULL, opa(0.8, 1.3), 0, NAN, "ooe",
+                DK_SCHEME_ANGLE, 2);
+    double L = 0, shortest = INFINITY;
+    int pair = -2, want = -1;
+    assert_int_equal(dk_design_pulse_limit(&d, 30, DK_SHAPE_GAUSSIAN, &L,
+                                           &pair, NULL),
+                     DK_OK);
+    for (int q = 0; q < DK_NPAIRS; q++) {
+        double Lq;
+        assert_int_equal(dk_design_longest_crystal(&d, (dk_pair)q, 30,
+                                                   DK_SHAPE_GAUSSIAN, &Lq,
+                                                   NULL),
+                         DK_OK);
+        if (Lq < shortest)
+            shortest = Lq, want = q;
+    }
+    assert_true(L == shortest);
+    assert_int_equal(pair, want);
+    const double n[3] = {1.5, 2.0, 2.5};
+    assert_within(dk_low_conversion_merit(3.0, 2.0, n), 36.0 / 7.5, 0,
+                  1e-15);
+}
+
 int
 main(void)
 {
@@ -547,6 +609,8 @@ main(void)
         cmocka_unit_test(gain_regime),
         cmocka_unit_test(low_conversion_vs_simulation),
         cmocka_unit_test(opa_gain_spectrum),
+        cmocka_unit_test(simulated_band_flags),
+        cmocka_unit_test(pulse_limit_over_pairs),
     };
     return cmocka_run_group_tests(tests, db_setup, db_teardown);
 }

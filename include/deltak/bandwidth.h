@@ -111,6 +111,28 @@ dk_status dk_design_longest_crystal(dk_design *d, dk_pair p, double fwhm_fs,
                                     dk_pulse_shape s, double *length_mm,
                                     dk_error *err);
 
+/*
+ * dk_design_pulse_limit:
+ * The longest crystal (mm) that supports the pulse along every pair that
+ * applies: the shortest of dk_design_longest_crystal() over them, in
+ * *length_mm (INFINITY when no pair limits it, 0 when a pair fails even
+ * at 1 µm), and that pair in *pair (−1 when none limits).
+ * Returns: DK_OK; the other errors of dk_design_longest_crystal().
+ */
+dk_status dk_design_pulse_limit(dk_design *d, double fwhm_fs,
+                                dk_pulse_shape s, double *length_mm,
+                                int *pair, dk_error *err);
+
+/*
+ * dk_low_conversion_merit:
+ * (d_eff L)² / (n_s n_i n_p): the relative efficiency of a low-
+ * conversion stage (plane waves, no walk-off or absorption; Boyd,
+ * Nonlinear Optics §2.2, efficiency ∝ d_eff² L² / (n_s n_i n_p)), with
+ * @deff in pm/V and @length_mm in mm. For ranking, not an efficiency.
+ */
+double dk_low_conversion_merit(double deff_pm_per_v, double length_mm,
+                               const double n[3]);
+
 /* One wave's pulse after its own dispersion. */
 typedef struct dk_dispersed {
     double fwhm_in_fs;       /* the transform-limited input */

@@ -68,4 +68,14 @@ dk_status dk_design_sim_problem(dk_design *d, dk_design_wave_k k[3],
                                 dk_sim_problem *p, dk_deff_scaled *deff_used,
                                 dk_error *err);
 
+/*
+ * dk_design_sim_band_flags:
+ * The range flags (DK_RANGE_*) of the simulated bands of @r: each wave's
+ * 99.9 % band edges, in and out, set on that wave of @d with the others
+ * held. The span reached outside the set's ranges is noted in @notes
+ * (dk_design_note_span). Returns the union of the flags.
+ */
+unsigned dk_design_sim_band_flags(const dk_design *d, const dk_sim_result *r,
+                                  dk_notes *notes);
+
 #endif /* DK_DESIGN_SIM_H */

@@ -291,6 +291,35 @@ done:
     return st;
 }
 
+dk_status
+dk_design_pulse_limit(dk_design *d, double fwhm_fs, dk_pulse_shape s,
+                      double *length_mm, int *pair, dk_error *err)
+{
+    *length_mm = INFINITY;
+    *pair = -1;
+    for (int q = 0; q < DK_NPAIRS; q++) {
+        if (!dk_pair_applies(d, (dk_pair)q))
+            continue;
+        double L;
+        dk_status st = dk_design_longest_crystal(d, (dk_pair)q, fwhm_fs, s,
+                                                 &L, err);
+        if (st == DK_ENOROOT)
+            L = 0;
+        else if (st)
+            return st;
+        if (L < *length_mm)
+            *length_mm = L, *pair = q;
+    }
+    return DK_OK;
+}
+
+double
+dk_low_conversion_merit(double deff_pm_per_v, double length_mm,
+                        const double n[3])
+{
+    return pow(deff_pm_per_v * length_mm, 2) / (n[0] * n[1] * n[2]);
+}
+
 /* Spectral field amplitude of a transform-limited pulse (intensity FWHM
  * τ) at detuning Ω (rad/fs): Gaussian exp(−Ω²τ²/(8 ln2)); sech²: the
  * field sech(t/T), T = τ/(2 acosh √2), has the spectrum sech(πΩT/2). */

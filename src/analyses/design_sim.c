@@ -122,3 +122,34 @@ dk_design_sim_problem(dk_design *d, dk_design_wave_k k[3],
     }
     return DK_OK;
 }
+
+unsigned
+dk_design_sim_band_flags(const dk_design *d, const dk_sim_result *r,
+                         dk_notes *notes)
+{
+    dk_range_span span;
+    dk_range_span_init(&span);
+    unsigned all = 0;
+    for (int j = 0; j < 3; j++) {
+        const dk_sim_wave_out *w = &r->wave[j];
+        if (!w->present || !isfinite(w->band_um[0]))
+            continue;
+        for (int e = 0; e < 2; e++) {
+            dk_waves wv = d->waves;
+            double x = w->band_um[e];
+            if (d->shg)
+                wv = j == 2 ? dk_waves_shg(2 * x) : dk_waves_shg(x);
+            else if (j == 0)
+                wv.signal_um = x;
+            else if (j == 1)
+                wv.idler_um = x;
+            else
+                wv.pump_um = x;
+            unsigned f = dk_design_range_flags(d, &wv, d->temp_c);
+            dk_range_span_add(&span, f, &wv, d->temp_c);
+            all |= f;
+        }
+    }
+    dk_design_note_span(d, &span, notes);
+    return all;
+}

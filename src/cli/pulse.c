@@ -172,29 +172,14 @@ rank_candidates(const cli_common *cm, const cli_design_args *da,
             k->walkoff_mrad = fmax(k->walkoff_mrad, pp.walkoff_rad[j] * 1e3);
         }
         k->range = dk_design_range_flags(d, &d->waves, d->temp_c);
-        k->lmax_mm = INFINITY;
-        k->limiting = -1;
-        int bad = 0;
-        for (int q = 0; q < DK_NPAIRS; q++) {
-            if (!dk_pair_applies(d, (dk_pair)q))
-                continue;
-            double L;
-            dk_status st = dk_design_longest_crystal(d, (dk_pair)q, tau,
-                                                     shape, &L, &err);
-            if (st == DK_ENOROOT)
-                L = 0;
-            else if (st) {
-                snprintf(k->why, sizeof k->why, "%s", err.msg);
-                bad = 1;
-                break;
-            }
-            if (L < k->lmax_mm)
-                k->lmax_mm = L, k->limiting = q;
-        }
+        int bad = dk_design_pulse_limit(d, tau, shape, &k->lmax_mm,
+                                        &k->limiting, &err) != DK_OK;
+        if (bad)
+            snprintf(k->why, sizeof k->why, "%s", err.msg);
         if (!bad && isfinite(k->deff) && k->deff > 1e-6) {
             k->ok = 1;
-            double L = isfinite(k->lmax_mm) ? k->lmax_mm : 1e4;
-            k->merit = pow(k->deff * L, 2) / (k->n[0] * k->n[1] * k->n[2]);
+            k->merit = dk_low_conversion_merit(
+                k->deff, isfinite(k->lmax_mm) ? k->lmax_mm : 1e4, k->n);
         } else if (!bad) {
             snprintf(k->why, sizeof k->why, "no usable d_eff");
         }

@@ -76,47 +76,19 @@ enum { O_SIG_IN = 500, O_IDL_IN, O_PUMP_IN, O_FUND_IN, O_BEAM, O_SAMPLES,
        O_STEP, O_TOL, O_NOCHECK, O_FRAME, O_TABLE, O_FIGURE, O_MODEL,
        O_END };
 
-/* Photon energies: ħω in J for ω in rad/fs. */
-#define HBAR_J_FS 1.054571817e-19
-
 static const char *
 rule_text(const dk_sim_result *r)
 {
     return dk_sim_step_rule_str(r->step_rule);
 }
 
-/* The range flags of the simulated band of every wave (their 99.9 %
- * spans in and out), noted with the span reached. */
+/* The range flags of the simulated bands, their notes recorded. */
 static unsigned
 band_flags(dk_design *d, const dk_sim_result *r)
 {
-    dk_range_span span;
-    dk_range_span_init(&span);
-    unsigned all = 0;
-    for (int j = 0; j < 3; j++) {
-        const dk_sim_wave_out *w = &r->wave[j];
-        if (!w->present || !isfinite(w->band_um[0]))
-            continue;
-        for (int e = 0; e < 2; e++) {
-            dk_waves wv = d->waves;
-            double x = w->band_um[e];
-            if (d->shg) {
-                wv = j == 2 ? dk_waves_shg(2 * x) : dk_waves_shg(x);
-            } else if (j == 0) {
-                wv.signal_um = x;
-            } else if (j == 1) {
-                wv.idler_um = x;
-            } else {
-                wv.pump_um = x;
-            }
-            unsigned f = dk_design_range_flags(d, &wv, d->temp_c);
-            dk_range_span_add(&span, f, &wv, d->temp_c);
-            all |= f;
-        }
-    }
     dk_notes n;
     dk_notes_clear(&n);
-    dk_design_note_span(d, &span, &n);
+    unsigned all = dk_design_sim_band_flags(d, r, &n);
     cli_take_notes(&n);
     return all;
 }
@@ -261,7 +233,6 @@ print_text(FILE *f, dk_design *d, const dk_sim_problem *p,
                   "energies of a beam of 1/e^2 radius %.4g mm taken as its "
                   "centre's plane wave over pi w^2/2",
                   sqrt(2 * area / M_PI) * 10);
-    (void)HBAR_J_FS;
 }
 
 static void
@@ -324,10 +295,7 @@ json_wave(const dk_sim_problem *p, const dk_sim_result *r, int j)
                            cli_json_num(w->spectral_fwhm_in_thz));
     json_object_object_add(o, "spectral_fwhm_out_THz",
                            cli_json_num(w->spectral_fwhm_out_thz));
-    json_object *b = json_object_new_array();
-    json_object_array_add(b, cli_json_num(w->band_um[0]));
-    json_object_array_add(b, cli_json_num(w->band_um[1]));
-    json_object_object_add(o, "band_um", b);
+    json_object_object_add(o, "band_um", cli_json_range(w->band_um));
     json_object_object_add(o, "absorbed_J_per_cm2",
                            cli_json_num(w->absorbed_j_per_cm2));
     return o;
